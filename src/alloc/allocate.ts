@@ -1,0 +1,701 @@
+/**
+ * The allocator: hands out level values, node values and function values from a plan and its
+ * lock, carves every locator and SID exactly as the block's structure says, and returns the new
+ * lock. Pinned values are kept; values in the lock never move unless renumbering is allowed.
+ */
+import { Prefix } from "../net/prefix.js";
+import type { Addr } from "../net/uint128.js";
+import { type BehaviorName, type Flavor, codepointOf, normalizeFlavors } from "../sid/behaviors.js";
+import type { LocatorEntry, NodeTable, SidContext, SidEntry, SidStructure, SidTable } from "../sid/table.js";
+import { type Diagnostic, quote } from "../plan/diagnostic.js";
+import type { Block, Layout, Level, Plan, PlanNode, PoolKind, ValueRange } from "../plan/model.js";
+import { POOL_KINDS } from "../plan/model.js";
+import { inRanges, levelCapacity, rangeSize } from "../plan/normalize.js";
+import { type Lock, type RetiredValue, emptyLock } from "./lock.js";
+import { bitOrder, nthValue } from "./order.js";
+
+/** One value that would change, for the renumbering refusal and for the summary. */
+export interface Move {
+  readonly what: string;
+  readonly from: string;
+  readonly to: string;
+  readonly reason: string;
+}
+
+export interface UsageRow {
+  readonly name: string;
+  readonly used: bigint;
+  readonly capacity: bigint;
+  /** Where the fullest part is (e.g. the site with most routers). */
+  readonly fullest?: string;
+  readonly fullestUsed?: bigint;
+}
+
+export interface Allocation {
+  readonly plan: Plan;
+  readonly table: SidTable;
+  readonly lock: Lock;
+  readonly groupValues: ReadonlyMap<string, bigint>;
+  /** node or anycast name -> hierarchical node value (without algorithm bits) */
+  readonly nodeValues: ReadonlyMap<string, bigint>;
+  readonly levelUsage: readonly UsageRow[];
+  readonly poolUsage: readonly UsageRow[];
+  readonly moves: readonly Move[];
+  readonly retiredNow: readonly RetiredValue[];
+  readonly added: number;
+}
+
+export interface AllocateOptions {
+  /** Accept moving locked values (each move is reported and the old value retired). */
+  readonly allowRenumber?: boolean;
+}
+
+export type AllocateResult =
+  | { ok: true; allocation: Allocation }
+  | { ok: false; diagnostics: Diagnostic[]; moves: Move[] };
+
+/** Fingerprint of what decides every locator: level widths and each block's prefix and structure. */
+export function layoutFingerprint(plan: Plan): string {
+  const lv = plan.levels.map((l) => `${l.name}:${l.bits}`).join(",");
+  const bl = plan.blocks
+    .map((b) => {
+      const L = b.layout;
+      const s = L.kind === "classic" ? `classic:${L.nodeBits}/${L.functionBits}/${L.argumentBits}` : `${L.flavor}:${L.csidBits}/${L.nodeBits}/${L.functionBits}`;
+      return `${b.name}=${b.prefix.format()}:${s}:a${b.algorithms.join("+")}:${b.algorithmBits}`;
+    })
+    .sort()
+    .join(",");
+  return `levels=${lv};blocks=${bl}`;
+}
+
+const hex = (v: bigint) => "0x" + v.toString(16);
+
+/** Allocate a plan against its lock (or none). Pure: the caller reads and writes files. */
+export function allocate(plan: Plan, previous: Lock | undefined, options: AllocateOptions = {}): AllocateResult {
+  const diags: Diagnostic[] = [];
+  const moves: Move[] = [];
+  const allow = options.allowRenumber === true;
+  const layout = layoutFingerprint(plan);
+  let lock = previous ?? emptyLock(plan.name, layout);
+  const retiredNow: RetiredValue[] = [];
+  if (previous && previous.layout !== layout) {
+    moves.push({ what: "every locator", from: previous.layout, to: layout, reason: "the level widths or a block's prefix or structure changed" });
+    if (!allow) return { ok: false, diagnostics: [], moves };
+    // Renumber from scratch but keep the old values retired? They live in another layout, so
+    // they cannot collide; start a clean lock.
+    lock = emptyLock(plan.name, layout);
+  }
+  const retired = [...lock.retired];
+  const retiredIn = (kind: RetiredValue["kind"], space: string) => new Set(retired.filter((r) => r.kind === kind && r.space === space).map((r) => r.value));
+
+  // ---- level values for groups, parent by parent in file order
+  const groupValues = new Map<string, bigint>();
+  const byParent = new Map<string, typeof plan.groups[number][]>();
+  for (const g of plan.groups) {
+    const k = g.parent ?? "";
+    if (!byParent.has(k)) byParent.set(k, []);
+    byParent.get(k)!.push(g);
+  }
+  const groupPath = (path: string): (string | number)[] => ["groups", ...path.split("/").flatMap((p, i) => (i === 0 ? [p] : ["groups", p]))];
+  for (const [parent, kids] of byParent) {
+    const level = plan.levels[kids[0]!.depth]!;
+    const items = kids.map((g) => ({ id: g.path, pinned: g.pinned, locked: lock.groups.get(g.path), at: groupPath(g.path), label: `group ${g.path}` }));
+    const values = assignLevel(level, items, retiredIn("group", parent), () => true, allow, moves, diags, plan.locate);
+    for (const [id, v] of values) groupValues.set(id, v);
+    // retire groups of this parent that left the plan
+  }
+  for (const [path, v] of lock.groups) {
+    if (!plan.groups.some((g) => g.path === path)) retiredNow.push({ kind: "group", space: path.includes("/") ? path.slice(0, path.lastIndexOf("/")) : "", value: v, was: path });
+  }
+  for (const g of plan.groups) {
+    const old = lock.groups.get(g.path);
+    const now = groupValues.get(g.path);
+    if (old !== undefined && now !== undefined && old !== now) retiredNow.push({ kind: "group", space: g.parent ?? "", value: old, was: g.path });
+  }
+
+  // ---- prefix of levels above the last, per place
+  const placeValue = (place: string): bigint => {
+    if (plan.levels.length === 1) return 0n;
+    let v = 0n;
+    const parts = place.split("/");
+    for (let i = 0; i < parts.length; i++) {
+      const path = parts.slice(0, i + 1).join("/");
+      v = (v << BigInt(plan.levels[i]!.bits)) | (groupValues.get(path) ?? 0n);
+    }
+    return v;
+  };
+  const last = plan.levels[plan.levels.length - 1]!;
+  const levelBits = plan.levels.reduce((s, l) => s + l.bits, 0);
+
+  // which block serves a node for an algorithm
+  const blockFor = (place: string, algo: number): Block | undefined => {
+    const cands = plan.blocks.filter((b) => b.algorithms.includes(algo) && (b.groups.length === 0 || b.groups.some((g) => place === g || place.startsWith(g + "/"))));
+    return cands[0];
+  };
+  const nodeField = (b: Block, algo: number, hv: bigint) => (BigInt(b.algorithms.indexOf(algo)) << BigInt(levelBits)) | hv;
+  /** A node value is usable when, in every compressed block it lands in, its C-SID is not 0 and lies in the GIB. */
+  const nodeValueFits = (place: string, algos: readonly number[], leaf: bigint): boolean => {
+    const hv = (placeValue(place) << BigInt(last.bits)) | leaf;
+    for (const a of algos) {
+      const b = blockFor(place, a);
+      if (!b || b.layout.kind !== "compressed" || !b.layout.twoCsid) continue;
+      const f = nodeField(b, a, hv);
+      if (f === 0n || !inRanges(f, b.layout.gib)) return false;
+    }
+    return true;
+  };
+
+  // ---- node (and anycast) values, place by place
+  const nodeValues = new Map<string, bigint>();
+  const entities = [
+    ...plan.nodes.map((n) => ({ id: n.name, place: n.place, pinned: n.pinned, algos: n.algorithms, at: ["nodes", n.index] as (string | number)[], label: `node ${n.name}` })),
+    ...plan.anycast.map((a, i) => ({ id: `anycast:${a.name}`, place: a.place, pinned: a.pinned, algos: a.algorithms, at: ["anycast", i] as (string | number)[], label: `anycast group ${a.name}` })),
+  ];
+  const byPlace = new Map<string, typeof entities>();
+  for (const e of entities) {
+    if (!byPlace.has(e.place)) byPlace.set(e.place, []);
+    byPlace.get(e.place)!.push(e);
+  }
+  for (const [place, list] of byPlace) {
+    const items = list.map((e) => {
+      const l = lock.nodes.get(e.id);
+      let locked = l?.value;
+      if (l && l.place !== place) {
+        moves.push({ what: e.label, from: `${l.place} value ${hex(l.value)}`, to: place, reason: `it moved from ${quote(l.place)} to ${quote(place)}` });
+        retiredNow.push({ kind: "node", space: l.place, value: l.value, was: e.id });
+        locked = undefined;
+        if (!allow) return { ...e, locked: undefined, skip: true };
+      }
+      return { ...e, locked, skip: false };
+    });
+    const algosOf = new Map(items.map((i) => [i.id, i.algos]));
+    const values = assignLevel(
+      last,
+      items.filter((i) => !i.skip).map((i) => ({ id: i.id, pinned: i.pinned, locked: i.locked, at: i.at, label: i.label })),
+      retiredIn("node", place),
+      (id, v) => nodeValueFits(place, algosOf.get(id) ?? [], v),
+      allow,
+      moves,
+      diags,
+      plan.locate,
+    );
+    for (const [id, v] of values) {
+      const old = lock.nodes.get(id);
+      if (old && old.place === place && old.value !== v) retiredNow.push({ kind: "node", space: place, value: old.value, was: id });
+      nodeValues.set(id, (placeValue(place) << BigInt(last.bits)) | v);
+    }
+  }
+  const leafValues = new Map<string, { place: string; value: bigint }>();
+  for (const e of entities) {
+    const v = nodeValues.get(e.id);
+    if (v !== undefined) leafValues.set(e.id, { place: e.place, value: v & ((1n << BigInt(last.bits)) - 1n) });
+  }
+  for (const [id, l] of lock.nodes) {
+    if (!entities.some((e) => e.id === id)) retiredNow.push({ kind: "node", space: l.place, value: l.value, was: id });
+  }
+  if (diags.length > 0 || (moves.length > 0 && !allow)) return { ok: false, diagnostics: diags, moves };
+
+  // ---- SIDs, locator by locator
+  const nodeByName = new Map(plan.nodes.map((n) => [n.name, n]));
+  const functionsOut = new Map<string, Map<string, bigint>>();
+  const tables: NodeTable[] = [];
+  const poolMax = new Map<string, { used: bigint; cap: bigint; where: string }>();
+  let added = 0;
+
+  const specsFor = buildSpecs(plan, nodeByName, diags);
+  if (diags.length > 0) return { ok: false, diagnostics: diags, moves };
+
+  const allocOwner = (owner: string, place: string, algos: readonly number[], anycastName: string | undefined): { locators: LocatorEntry[]; sids: SidEntry[] } => {
+    const locators: LocatorEntry[] = [];
+    const sids: SidEntry[] = [];
+    const hv = nodeValues.get(owner)!;
+    const lockedFns = lock.functions.get(owner) ?? new Map<string, bigint>();
+    const outFns = new Map<string, bigint>();
+    for (const algo of algos) {
+      const b = blockFor(place, algo);
+      if (!b) {
+        diags.push({ code: "alloc/no-block", message: `no block serves algorithm ${algo} for ${owner.replace("anycast:", "anycast group ")} in ${quote(place)}; add the algorithm to a block's algorithms or remove it from the node`, location: plan.locate(owner.startsWith("anycast:") ? ["anycast"] : ["nodes", nodeByName.get(owner)?.index ?? 0]) });
+        continue;
+      }
+      const L = b.layout;
+      const field = nodeField(b, algo, hv);
+      const locLen = L.blockBits + L.nodeBits;
+      const locator = new Prefix(b.prefix.first | (field << BigInt(128 - locLen)), locLen);
+      locators.push({ prefix: locator, algorithm: algo, block: b.name, anycast: anycastName ?? "" });
+      const firstEnd = endSpecs(plan, algo)[0]?.key;
+      // Two-C-SID layouts: the first End SID is the node's global C-SID alone (no local C-SID).
+      const specs = (anycastName ? endSpecs(plan, algo) : (specsFor.get(owner) ?? []).filter((s) => s.algorithm === algo || s.algorithm === undefined)).map((s) =>
+        L.kind === "compressed" && L.twoCsid && s.key === firstEnd ? { ...s, noFunction: true } : s,
+      );
+      const space = `${owner}|${algo}`;
+      const taken = new Set<bigint>(retiredIn("function", space));
+      const pools = poolsFor(plan, L);
+      const fnMax = (1n << BigInt(L.functionBits)) - 1n;
+      const fits = (v: bigint) => {
+        if (v > fnMax || inRanges(v, plan.reservedFunctions)) return false;
+        if (L.kind === "classic" && v === 0n && !plan.functionPools.end) return false;
+        if (L.kind === "compressed" && !L.twoCsid) {
+          const csid = (field << BigInt(L.functionBits)) | v;
+          return csid !== 0n && inRanges(csid, L.gib);
+        }
+        return true;
+      };
+      // pass 1: pins and locked values
+      const chosen = new Map<string, bigint>();
+      for (const s of specs) {
+        const key = `${algo}|${s.key}`;
+        if (s.noFunction) continue;
+        const locked = lockedFns.get(key);
+        if (s.pinned !== undefined) {
+          if (!fits(s.pinned) && s.pinned > fnMax) {
+            diags.push({ code: "alloc/pin", message: `pinned function ${hex(s.pinned)} does not fit the ${L.functionBits}-bit function field of block ${quote(b.name)}`, location: plan.locate(s.at) });
+            continue;
+          }
+          if (locked !== undefined && locked !== s.pinned) {
+            moves.push({ what: `${owner} ${s.behavior} ${s.key}`, from: hex(locked), to: hex(s.pinned), reason: "its pinned function value changed" });
+            if (!allow) continue;
+            retiredNow.push({ kind: "function", space, value: locked, was: key });
+          }
+          if (taken.has(s.pinned)) {
+            diags.push({ code: "alloc/pin-conflict", message: `function ${hex(s.pinned)} pinned for ${s.behavior} ${quote(s.key)} on ${owner} is already used or retired on that locator`, location: plan.locate(s.at) });
+            continue;
+          }
+          chosen.set(key, s.pinned);
+          taken.add(s.pinned);
+        } else if (locked !== undefined) {
+          const pool = pools[s.pool];
+          if (!inRanges(locked, pool) || !fits(locked)) {
+            moves.push({ what: `${owner} ${s.behavior} ${s.key}`, from: hex(locked), to: "(a new value)", reason: `${hex(locked)} is no longer in the ${s.pool} pool` });
+            if (!allow) continue;
+            retiredNow.push({ kind: "function", space, value: locked, was: key });
+            continue;
+          }
+          if (taken.has(locked)) {
+            diags.push({ code: "alloc/lock-conflict", message: `the lock gives function ${hex(locked)} twice on ${owner} (algorithm ${algo}); restore the lock from version control`, location: { file: plan.file } });
+            continue;
+          }
+          chosen.set(key, locked);
+          taken.add(locked);
+        }
+      }
+      // pass 2: new values, first free in each pool
+      const cursors = new Map<PoolKind, { range: number; next: bigint }>();
+      for (const s of specs) {
+        const key = `${algo}|${s.key}`;
+        if (s.noFunction || chosen.has(key)) continue;
+        const pool = pools[s.pool];
+        const cur = cursors.get(s.pool) ?? { range: 0, next: pool[0]?.first ?? 0n };
+        let found: bigint | undefined;
+        while (cur.range < pool.length) {
+          const r = pool[cur.range]!;
+          if (cur.next < r.first) cur.next = r.first;
+          if (cur.next > r.last) {
+            cur.range++;
+            continue;
+          }
+          const v = cur.next++;
+          if (!taken.has(v) && fits(v)) {
+            found = v;
+            break;
+          }
+        }
+        cursors.set(s.pool, cur);
+        if (found === undefined) {
+          diags.push({ code: "alloc/pool-full", message: `the ${s.pool} function pool of block ${quote(b.name)} (${rangeSize(pool)} values) is exhausted on ${owner} (algorithm ${algo}); widen the pool or the function field`, location: plan.locate(s.at) });
+          continue;
+        }
+        chosen.set(key, found);
+        taken.add(found);
+        added++;
+      }
+      // pool usage
+      for (const kind of POOL_KINDS) {
+        const pool = pools[kind];
+        let used = 0n;
+        for (const v of chosen.values()) if (inRanges(v, pool)) used++;
+        const k = `${b.name}/${kind}`;
+        const prev = poolMax.get(k);
+        if (!prev || used > prev.used) poolMax.set(k, { used, cap: rangeSize(pool), where: owner });
+      }
+      // SIDs
+      for (const s of specs) {
+        const key = `${algo}|${s.key}`;
+        const fn = s.noFunction ? 0n : chosen.get(key);
+        if (fn === undefined) continue;
+        if (!s.noFunction) outFns.set(key, fn);
+        sids.push(makeSid(b, L, locator, algo, s, fn, key));
+      }
+    }
+    if (outFns.size > 0) functionsOut.set(owner, outFns);
+    for (const [key, v] of lockedFns) {
+      if (!outFns.has(key) && !retiredNow.some((r) => r.kind === "function" && r.was === key && r.space === `${owner}|${key.split("|")[0]}`)) {
+        retiredNow.push({ kind: "function", space: `${owner}|${key.split("|")[0]}`, value: v, was: key });
+      }
+    }
+    return { locators, sids };
+  };
+
+  const anycastByName = new Map(plan.anycast.map((a) => [a.name, a]));
+  const anycastTables = new Map<string, { locators: LocatorEntry[]; sids: SidEntry[] }>();
+  for (const a of plan.anycast) anycastTables.set(a.name, allocOwner(`anycast:${a.name}`, a.place, a.algorithms, a.name));
+  for (const n of plan.nodes) {
+    const { locators, sids } = allocOwner(n.name, n.place, n.algorithms, undefined);
+    for (const an of n.anycast) {
+      const a = anycastByName.get(an);
+      const t = anycastTables.get(an);
+      if (!a || !t) continue;
+      for (const l of t.locators) if (n.algorithms.includes(l.algorithm)) locators.push(l);
+      for (const s of t.sids) if (n.algorithms.includes(s.algorithm)) sids.push(s);
+    }
+    tables.push({ node: n.name, locators: sortLocators(locators), sids: sortSids(sids) });
+  }
+  if (diags.length > 0 || (moves.length > 0 && !allow)) return { ok: false, diagnostics: diags, moves };
+
+  // functions of owners that left the plan
+  for (const [owner, fns] of lock.functions) {
+    if (functionsOut.has(owner) || entities.some((e) => e.id === owner)) continue;
+    void fns; // the owner's node value is retired; its locator with it, so its functions need not be kept
+  }
+  const newRetired = dedupeRetired([...retired, ...retiredNow]);
+  const newLock: Lock = {
+    plan: plan.name,
+    layout,
+    groups: groupValues,
+    nodes: leafValues,
+    functions: functionsOut,
+    retired: newRetired,
+  };
+
+  tables.sort((a, b) => (a.node < b.node ? -1 : a.node > b.node ? 1 : 0));
+  return {
+    ok: true,
+    allocation: {
+      plan,
+      table: { plan: plan.name, nodes: tables },
+      lock: newLock,
+      groupValues,
+      nodeValues,
+      levelUsage: levelUsage(plan, groupValues, leafValues),
+      poolUsage: [...poolMax.entries()].sort(([a], [b]) => (a < b ? -1 : 1)).map(([name, u]) => ({ name, used: u.used, capacity: u.cap, fullest: u.where, fullestUsed: u.used })),
+      moves,
+      retiredNow: dedupeRetired(retiredNow),
+      added,
+    },
+  };
+}
+
+function dedupeRetired(list: readonly RetiredValue[]): RetiredValue[] {
+  const seen = new Set<string>();
+  const out: RetiredValue[] = [];
+  for (const r of list) {
+    const k = `${r.kind}|${r.space}|${r.value}`;
+    if (seen.has(k)) continue;
+    seen.add(k);
+    out.push(r);
+  }
+  return out;
+}
+
+interface LevelItem {
+  readonly id: string;
+  readonly pinned: bigint | undefined;
+  readonly locked: bigint | undefined;
+  readonly at: (string | number)[];
+  readonly label: string;
+}
+
+/**
+ * Values for the items of one parent at one level: pins first, then locked values, then new
+ * items take the first free value in the level's RFC 3531 order.
+ */
+function assignLevel(
+  level: Level,
+  items: readonly LevelItem[],
+  retired: ReadonlySet<bigint>,
+  fits: (id: string, v: bigint) => boolean,
+  allow: boolean,
+  moves: Move[],
+  diags: Diagnostic[],
+  locate: Plan["locate"],
+): Map<string, bigint> {
+  const failed = new Set<string>();
+  const out = new Map<string, bigint>();
+  const taken = new Set<bigint>(retired);
+  const hexv = (v: bigint) => "0x" + v.toString(16);
+  const isReserved = (v: bigint) => inRanges(v, level.reserved);
+  const pinnedBy = new Map<bigint, string>();
+  for (const it of items) {
+    if (it.pinned === undefined) continue;
+    const other = pinnedBy.get(it.pinned);
+    if (other) {
+      failed.add(it.id);
+      diags.push({ code: "alloc/pin-conflict", message: `${it.label} pins ${level.name} value ${hexv(it.pinned)}, already pinned by ${other}; each value is used once per parent`, location: locate(it.at) });
+      continue;
+    }
+    pinnedBy.set(it.pinned, it.label);
+  }
+  for (const it of items) {
+    if (it.pinned === undefined) continue;
+    if (it.locked !== undefined && it.locked !== it.pinned) {
+      moves.push({ what: it.label, from: hexv(it.locked), to: hexv(it.pinned), reason: "its pinned value changed" });
+      if (!allow) continue;
+    }
+    if (retired.has(it.pinned) && it.locked !== it.pinned) {
+      failed.add(it.id);
+      diags.push({ code: "alloc/pin-retired", message: `${it.label} pins ${level.name} value ${hexv(it.pinned)}, which is retired (it belonged to an item removed from the plan); release it first or pick another`, location: locate(it.at) });
+      continue;
+    }
+    out.set(it.id, it.pinned);
+    taken.add(it.pinned);
+  }
+  for (const it of items) {
+    if (it.pinned !== undefined || it.locked === undefined) continue;
+    const bad = it.locked >= 1n << BigInt(level.bits) || isReserved(it.locked) || !fits(it.id, it.locked) || (taken.has(it.locked) && !retired.has(it.locked));
+    if (bad) {
+      moves.push({ what: it.label, from: hexv(it.locked), to: "(a new value)", reason: `${hexv(it.locked)} is no longer usable at level ${level.name} (reserved, out of range, outside the global pool, or now pinned by another item)` });
+      if (!allow) continue;
+    } else {
+      out.set(it.id, it.locked);
+      taken.add(it.locked);
+    }
+  }
+  const bits = bitOrder(level.order, level.bits);
+  const size = 1n << BigInt(level.bits);
+  let k = 0n;
+  for (const it of items) {
+    if (out.has(it.id) || failed.has(it.id)) continue;
+    if (it.pinned !== undefined) continue;
+    let found: bigint | undefined;
+    while (k < size) {
+      const v = nthValue(level.order, level.bits, k++, bits);
+      if (!taken.has(v) && !isReserved(v) && fits(it.id, v)) {
+        found = v;
+        break;
+      }
+    }
+    if (found === undefined) {
+      diags.push({ code: "alloc/level-full", message: `level ${quote(level.name)} (${level.bits} bits, ${levelCapacity(level)} usable values) has no free value left for ${it.label} (retired, reserved and global-pool limits count); widen the level or release retired values`, location: locate(it.at) });
+      continue;
+    }
+    out.set(it.id, found);
+    taken.add(found);
+  }
+  return out;
+}
+
+/** What the allocator will create for one owner: the binding, its behaviour and pool. */
+interface SidSpec {
+  readonly key: string;
+  readonly behavior: BehaviorName;
+  readonly flavors: readonly Flavor[];
+  readonly pool: PoolKind;
+  readonly algorithm: number | undefined; // undefined: every algorithm of the node
+  readonly pinned: bigint | undefined;
+  readonly noFunction: boolean;
+  readonly context: SidContext;
+  readonly at: (string | number)[];
+}
+
+function endSpecs(plan: Plan, _algo: number): SidSpec[] {
+  return plan.endSids.map((f, i) => ({
+    key: `End|${normalizeFlavors(f).join("+") || "plain"}`,
+    behavior: "End" as const,
+    flavors: f,
+    pool: "end" as const,
+    algorithm: undefined,
+    pinned: undefined,
+    noFunction: false,
+    context: {},
+    at: ["end-sids", i],
+  }));
+}
+
+function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Diagnostic[]): Map<string, SidSpec[]> {
+  const out = new Map<string, SidSpec[]>();
+  const add = (node: string, s: SidSpec) => {
+    if (!out.has(node)) out.set(node, []);
+    out.get(node)!.push(s);
+  };
+  for (const n of plan.nodes) for (const s of endSpecs(plan, 0)) add(n.name, s);
+  const seen = new Set<string>();
+  for (const l of plan.links) {
+    const [a, b] = l.ends;
+    const na = nodes.get(a.node);
+    const nb = nodes.get(b.node);
+    if (!na || !nb) continue;
+    const algos = l.algorithms ?? na.algorithms.filter((x) => nb.algorithms.includes(x));
+    const variants = l.protection === "both" ? (["unprotected", "protected"] as const) : ([l.protection] as const);
+    for (const [me, peer] of [
+      [a, b],
+      [b, a],
+    ] as const) {
+      for (const prot of variants) {
+        const key = `End.X|${peer.node}|${me.iface ?? ""}|${prot}`;
+        if (seen.has(`${me.node}|${key}`)) {
+          diags.push({ code: "plan/parallel-link", message: `two links join ${quote(me.node)} and ${quote(peer.node)} without telling them apart; give each an interface on both ends`, location: plan.locate(["links", l.index]) });
+          continue;
+        }
+        seen.add(`${me.node}|${key}`);
+        const pinned = prot === "protected" && variants.length === 2 ? me.pinnedProtected : prot === "protected" ? (me.pinnedProtected ?? me.pinned) : me.pinned;
+        for (const algo of algos) {
+          add(me.node, {
+            key,
+            behavior: "End.X",
+            flavors: plan.adjacencyFlavors,
+            pool: "adjacency",
+            algorithm: algo,
+            pinned,
+            noFunction: false,
+            context: { neighbor: peer.node, ...(me.iface ? { interface: me.iface } : {}), protection: prot, link: l.name },
+            at: ["links", l.index, "ends", l.ends.indexOf(me)],
+          });
+        }
+      }
+    }
+  }
+  plan.vrfs.forEach((v, i) => {
+    const fams = v.families;
+    const behaviors: { b: BehaviorName; fam: string }[] =
+      fams.length === 2 && v.mode === "combined" ? [{ b: "End.DT46", fam: "ipv4+ipv6" }] : fams.map((f) => ({ b: f === "ipv4" ? ("End.DT4" as const) : ("End.DT6" as const), fam: f }));
+    for (const pe of v.pes) {
+      for (const { b, fam } of behaviors) {
+        add(pe, { key: `${b}|${v.name}`, behavior: b, flavors: [], pool: "service", algorithm: v.algorithm, pinned: undefined, noFunction: false, context: { vrf: v.name, family: fam, ...(v.table !== undefined ? { table: String(v.table) } : {}) }, at: ["vrfs", i] });
+      }
+    }
+    v.ces.forEach((c, j) => {
+      const b: BehaviorName = c.family === "ipv4" ? "End.DX4" : "End.DX6";
+      add(c.pe, { key: `${b}|${v.name}|${c.name}`, behavior: b, flavors: [], pool: "service", algorithm: v.algorithm, pinned: undefined, noFunction: false, context: { vrf: v.name, ce: c.name, family: c.family, ...(c.iface ? { interface: c.iface } : {}) }, at: ["vrfs", i, "ces", j] });
+    });
+  });
+  plan.l2.forEach((s, i) => {
+    if (s.kind === "bridge") {
+      for (const n of s.nodes) {
+        add(n, { key: `End.DT2U|${s.name}`, behavior: "End.DT2U", flavors: [], pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context: { "bridge-domain": s.name }, at: ["l2-services", i] });
+        add(n, { key: `End.DT2M|${s.name}`, behavior: "End.DT2M", flavors: [], pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context: { "bridge-domain": s.name }, at: ["l2-services", i] });
+      }
+    } else {
+      const b: BehaviorName = s.kind === "wire" ? "End.DX2" : "End.DX2V";
+      s.attachments.forEach((a, j) => {
+        add(a.node, { key: `${b}|${s.name}|${a.iface ?? ""}|${a.vlan ?? ""}`, behavior: b, flavors: [], pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context: { service: s.name, ...(a.iface ? { interface: a.iface } : {}), ...(a.vlan !== undefined ? { vlan: String(a.vlan) } : {}) }, at: ["l2-services", i, "attachments", j] });
+      });
+    }
+  });
+  plan.policies.forEach((p, i) => {
+    add(p.node, { key: `${p.behavior}|${p.name}`, behavior: p.behavior, flavors: [], pool: "binding", algorithm: p.algorithm, pinned: undefined, noFunction: false, context: { policy: p.name, ...(p.endpoint ? { endpoint: p.endpoint } : {}), ...(p.color !== undefined ? { color: String(p.color) } : {}) }, at: ["policies", i] });
+  });
+  plan.tables.forEach((t, i) => {
+    for (const n of t.nodes) add(n, { key: `End.T|${t.name}`, behavior: "End.T", flavors: t.flavors, pool: "table", algorithm: 0, pinned: undefined, noFunction: false, context: { table: t.table !== undefined ? `${t.name}(${t.table})` : t.name }, at: ["tables", i] });
+  });
+  return out;
+}
+
+/**
+ * Function pools for a layout. Pools the plan names are used as given; the others come from our
+ * own default split of the function space (classic) or of the local pool (two-C-SID layouts):
+ * sixteen equal parts — end 1, adjacency 3, service 4, l2 4, binding 2, table 2.
+ */
+export function poolsFor(plan: Plan, L: Layout): Record<PoolKind, ValueRange[]> {
+  const base: ValueRange[] =
+    L.kind === "compressed" && L.twoCsid ? [...L.lib] : [{ first: L.kind === "classic" ? 0n : 0n, last: (1n << BigInt(L.functionBits)) - 1n }];
+  const total = rangeSize(base);
+  const shares: [PoolKind, number][] = [
+    ["end", 1],
+    ["adjacency", 3],
+    ["service", 4],
+    ["l2", 4],
+    ["binding", 2],
+    ["table", 2],
+  ];
+  const out = {} as Record<PoolKind, ValueRange[]>;
+  if (total < 16n) {
+    for (const [k] of shares) out[k] = plan.functionPools[k] ? [...plan.functionPools[k]!] : base;
+    return out;
+  }
+  const part = total / 16n;
+  let offset = 0n;
+  for (const [k, n] of shares) {
+    const from = offset;
+    const to = k === "table" ? total - 1n : offset + part * BigInt(n) - 1n;
+    offset = to + 1n;
+    out[k] = plan.functionPools[k] ? [...plan.functionPools[k]!] : sliceRanges(base, from, to);
+  }
+  return out;
+}
+
+/** The values at flat offsets from..to across a list of ranges. */
+function sliceRanges(rs: readonly ValueRange[], from: bigint, to: bigint): ValueRange[] {
+  const out: ValueRange[] = [];
+  let pos = 0n;
+  for (const r of rs) {
+    const n = r.last - r.first + 1n;
+    const lo = from > pos ? from - pos : 0n;
+    const hi = to < pos + n - 1n ? to - pos : n - 1n;
+    if (lo <= hi && lo < n && hi >= 0n) out.push({ first: r.first + lo, last: r.first + hi });
+    pos += n;
+  }
+  return out;
+}
+
+/** The flavours a SID carries in a layout: its own plus the block's C-SID flavour where the registry has that combination. */
+export function flavorsIn(L: Layout, behavior: BehaviorName, own: readonly Flavor[]): Flavor[] {
+  if (L.kind === "compressed") {
+    const withC = normalizeFlavors([...own, L.flavor]);
+    if (codepointOf(behavior, withC) !== undefined) return withC;
+  }
+  return normalizeFlavors(own);
+}
+
+function makeSid(b: Block, L: Layout, locator: Prefix, algo: number, s: SidSpec, fn: bigint, key: string): SidEntry {
+  const flavors = flavorsIn(L, s.behavior, s.flavors);
+  const compressed = flavors.includes("NEXT-CSID") || flavors.includes("REPLACE-CSID");
+  const fnBits = s.noFunction ? 0 : L.functionBits;
+  const used = L.blockBits + L.nodeBits + fnBits;
+  const sid: Addr = locator.first | (s.noFunction ? 0n : fn << BigInt(128 - L.blockBits - L.nodeBits - L.functionBits));
+  let argument: number;
+  if (compressed) argument = 128 - used; // RFC 9800 §8: the rest of the address is the argument
+  else argument = s.behavior === "End.DT2M" ? L.argumentBits : 0; // RFC 8986 §4.12: only End.DT2M takes one
+  const structure: SidStructure = { block: L.blockBits, node: L.nodeBits, function: fnBits, argument };
+  return {
+    sid,
+    behavior: s.behavior,
+    flavors,
+    codepoint: codepointOf(s.behavior, flavors),
+    algorithm: algo,
+    locator,
+    function: fn,
+    structure,
+    context: s.context,
+    key,
+  };
+  void b;
+}
+
+function sortLocators(ls: LocatorEntry[]): LocatorEntry[] {
+  return ls.sort((a, b) => a.algorithm - b.algorithm || (a.prefix.first < b.prefix.first ? -1 : a.prefix.first > b.prefix.first ? 1 : 0) || a.prefix.len - b.prefix.len);
+}
+
+function sortSids(ss: SidEntry[]): SidEntry[] {
+  return ss.sort((a, b) => (a.sid < b.sid ? -1 : a.sid > b.sid ? 1 : 0) || a.algorithm - b.algorithm || (a.behavior < b.behavior ? -1 : a.behavior > b.behavior ? 1 : 0));
+}
+
+function levelUsage(plan: Plan, groups: ReadonlyMap<string, bigint>, leaves: ReadonlyMap<string, { place: string; value: bigint }>): UsageRow[] {
+  const rows: UsageRow[] = [];
+  plan.levels.forEach((level, depth) => {
+    const counts = new Map<string, bigint>();
+    if (depth < plan.levels.length - 1) {
+      for (const g of plan.groups) if (g.depth === depth && groups.has(g.path)) counts.set(g.parent ?? "", (counts.get(g.parent ?? "") ?? 0n) + 1n);
+    } else {
+      for (const l of leaves.values()) counts.set(l.place, (counts.get(l.place) ?? 0n) + 1n);
+    }
+    let fullest = "";
+    let max = 0n;
+    for (const [k, v] of [...counts.entries()].sort(([a], [b]) => (a < b ? -1 : 1))) {
+      if (v > max) {
+        max = v;
+        fullest = k;
+      }
+    }
+    rows.push({ name: level.name, used: max, capacity: levelCapacity(level), fullest: fullest || "(top)", fullestUsed: max });
+  });
+  return rows;
+}

@@ -1,0 +1,118 @@
+/**
+ * The lock: every value the allocator has handed out, kept beside the plan and committed with it,
+ * so that re-running never moves an existing SID. Serialised as sorted JSON with a digest that
+ * exposes hand edits, truncation and a lock that belongs to another plan.
+ */
+import { createHash } from "node:crypto";
+import type { Diagnostic } from "../plan/diagnostic.js";
+
+export const LOCK_SCHEMA_ID = "sidcarve/lock/v1";
+
+/** A value no longer in use; it stays out of circulation until released. */
+export interface RetiredValue {
+  readonly kind: "group" | "node" | "function";
+  /** The space the value lives in: parent group path, place, or `owner|algorithm`. */
+  readonly space: string;
+  readonly value: bigint;
+  /** What held it (group path, node name, SID key). */
+  readonly was: string;
+}
+
+export interface Lock {
+  readonly plan: string;
+  /** Fingerprint of the bit layout (levels and blocks); a change means every locator moves. */
+  readonly layout: string;
+  readonly groups: ReadonlyMap<string, bigint>;
+  readonly nodes: ReadonlyMap<string, { place: string; value: bigint }>;
+  /** owner (node name or `anycast:NAME`) -> SID key -> function value */
+  readonly functions: ReadonlyMap<string, ReadonlyMap<string, bigint>>;
+  readonly retired: readonly RetiredValue[];
+}
+
+export function emptyLock(plan: string, layout: string): Lock {
+  return { plan, layout, groups: new Map(), nodes: new Map(), functions: new Map(), retired: [] };
+}
+
+const hex = (v: bigint) => "0x" + v.toString(16);
+
+function body(lock: Lock): Record<string, unknown> {
+  const sortObj = <T>(m: ReadonlyMap<string, T>, f: (v: T) => unknown) =>
+    Object.fromEntries([...m.keys()].sort().map((k) => [k, f(m.get(k)!)]));
+  return {
+    schema: LOCK_SCHEMA_ID,
+    plan: lock.plan,
+    layout: lock.layout,
+    groups: sortObj(lock.groups, hex),
+    nodes: sortObj(lock.nodes, (n) => ({ place: n.place, value: hex(n.value) })),
+    functions: sortObj(lock.functions, (m) => sortObj(m, hex)),
+    retired: [...lock.retired]
+      .sort((a, b) => cmp(a.kind, b.kind) || cmp(a.space, b.space) || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0) || cmp(a.was, b.was))
+      .map((r) => ({ kind: r.kind, space: r.space, value: hex(r.value), was: r.was })),
+  };
+}
+
+function cmp(a: string, b: string): number {
+  return a < b ? -1 : a > b ? 1 : 0;
+}
+
+function digestOf(b: Record<string, unknown>): string {
+  return "sha256:" + createHash("sha256").update(JSON.stringify(b)).digest("hex");
+}
+
+/** Deterministic text of a lock (same lock, same bytes), ending in a newline. */
+export function serializeLock(lock: Lock): string {
+  const b = body(lock);
+  return JSON.stringify({ ...b, digest: digestOf(b) }, null, 2) + "\n";
+}
+
+/**
+ * Read a lock. Problems — not JSON, truncated, wrong schema, a digest that does not match
+ * (hand-edited), or a lock of another plan — are diagnostics; the caller must then write nothing.
+ */
+export function parseLock(text: string, file: string, planName: string): { ok: true; lock: Lock } | { ok: false; diagnostics: Diagnostic[] } {
+  const fail = (code: string, message: string) => ({ ok: false as const, diagnostics: [{ code, message, location: { file } }] });
+  let data: any;
+  try {
+    data = JSON.parse(text);
+  } catch (e) {
+    return fail("lock/unreadable", `the lock file is not complete JSON (${(e as Error).message}); it may be truncated. Restore it from version control; nothing was written`);
+  }
+  if (data === null || typeof data !== "object" || data.schema !== LOCK_SCHEMA_ID) {
+    return fail("lock/schema", `the file is not a sidcarve lock (expected "schema": "${LOCK_SCHEMA_ID}"); nothing was written`);
+  }
+  const { digest, ...rest } = data;
+  try {
+    if (digest !== digestOf(rest)) {
+      return fail("lock/digest", "the lock file does not match its digest: it was edited by hand or damaged. Restore it from version control (or delete it to allocate afresh, which renumbers everything); nothing was written");
+    }
+    if (data.plan !== planName) {
+      return fail("lock/other-plan", `the lock belongs to plan ${JSON.stringify(data.plan)}, not to ${JSON.stringify(planName)}; point --lock-dir elsewhere or rename; nothing was written`);
+    }
+    const big = (s: unknown) => {
+      if (typeof s !== "string" || !/^0x[0-9a-f]+$/.test(s)) throw new Error(`bad value ${JSON.stringify(s)}`);
+      return BigInt(s);
+    };
+    const groups = new Map(Object.entries(data.groups ?? {}).map(([k, v]) => [k, big(v)]));
+    const nodes = new Map(Object.entries(data.nodes ?? {}).map(([k, v]: [string, any]) => [k, { place: String(v.place), value: big(v.value) }]));
+    const functions = new Map(
+      Object.entries(data.functions ?? {}).map(([k, v]) => [k, new Map(Object.entries(v as object).map(([kk, vv]) => [kk, big(vv)]))]),
+    );
+    const retired: RetiredValue[] = ((data.retired ?? []) as any[]).map((r) => {
+      if (!["group", "node", "function"].includes(r.kind)) throw new Error(`bad retired kind ${JSON.stringify(r.kind)}`);
+      return { kind: r.kind, space: String(r.space), value: big(r.value), was: String(r.was) };
+    });
+    return { ok: true, lock: { plan: data.plan, layout: String(data.layout), groups, nodes, functions, retired } };
+  } catch (e) {
+    return fail("lock/schema", `the lock file is inconsistent (${(e as Error).message}); restore it from version control; nothing was written`);
+  }
+}
+
+/**
+ * Return retired values to the free pool: all of them, or those whose former holder is named
+ * (a group path, node or anycast name, or a SID key). Returns the new lock and what was freed.
+ */
+export function releaseRetired(lock: Lock, names: readonly string[] | "all"): { lock: Lock; released: RetiredValue[] } {
+  const hit = (r: RetiredValue) => names === "all" || names.includes(r.was) || names.includes(r.was.replace(/^anycast:/, ""));
+  const released = lock.retired.filter(hit);
+  return { lock: { ...lock, retired: lock.retired.filter((r) => !hit(r)) }, released };
+}

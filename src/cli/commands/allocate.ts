@@ -1,0 +1,39 @@
+/** `sidcarve allocate PLAN`: allocate, write the lock atomically, print the summary. */
+import { serializeLock } from "../../alloc/lock.js";
+import { allocationSummary } from "../../emit/summary.js";
+import type { Io } from "../context.js";
+import { UsageError, readIfExists, writeAtomic } from "../io.js";
+import { allocateOrFail, loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
+
+export interface AllocateFlags {
+  readonly lock?: string;
+  readonly allowRenumber?: boolean;
+  readonly dryRun?: boolean;
+}
+
+export function runAllocate(planFile: string, flags: AllocateFlags, io: Io): number {
+  const plan = loadPlanFile(planFile);
+  const lockFile = lockPathFor(planFile, flags.lock);
+  const { lock, text } = loadLock(plan, lockFile);
+  const a = allocateOrFail(plan, lock, { allowRenumber: flags.allowRenumber === true });
+  const newText = serializeLock(a.lock);
+  const sids = a.table.nodes.reduce((s, n) => s + n.sids.length, 0);
+  io.out(`plan ${plan.name}: ${a.table.nodes.length} nodes, ${sids} SIDs (${a.added} new), ${a.retiredNow.length} values retired\n`);
+  for (const m of a.moves) io.out(`renumbered ${m.what}: ${m.from} -> ${m.to} (${m.reason})\n`);
+  io.out(allocationSummary(a));
+  if (flags.dryRun) {
+    io.out(`dry run: ${lockFile} not written\n`);
+    return 0;
+  }
+  if (newText === text) {
+    io.out(`lock ${lockFile} unchanged\n`);
+    return 0;
+  }
+  // Another run may have written the lock since we read it: refuse rather than lose its values.
+  if (readIfExists(lockFile) !== text) {
+    throw new UsageError(`${lockFile}: the lock changed while this run was working (another sidcarve run?); nothing was written, run again`);
+  }
+  writeAtomic(lockFile, [newText]);
+  io.out(`lock written to ${lockFile}\n`);
+  return 0;
+}

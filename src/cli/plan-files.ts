@@ -1,0 +1,54 @@
+/**
+ * Loading a plan and its lock from disk for the commands, with every failure as a UsageError
+ * carrying located diagnostics.
+ */
+import { basename, dirname, join } from "node:path";
+import { type Lock, parseLock } from "../alloc/lock.js";
+import { type Allocation, type AllocateOptions, allocate } from "../alloc/allocate.js";
+import { loadPlanBytes } from "../plan/load.js";
+import type { Plan } from "../plan/model.js";
+import { UsageError, readIfExists, readInput } from "./io.js";
+
+/** The lock file that belongs to a plan: beside it, `<name>.lock.json`, unless given. */
+export function lockPathFor(planFile: string, explicit?: string): string {
+  if (explicit) return explicit;
+  const base = basename(planFile).replace(/\.(ya?ml|json)$/i, "");
+  return join(dirname(planFile), `${base}.lock.json`);
+}
+
+export function loadPlanFile(file: string): Plan {
+  const r = loadPlanBytes(readInput(file), file);
+  if (!r.ok) throw new UsageError(`${file}: the plan has ${r.diagnostics.length} problem${r.diagnostics.length === 1 ? "" : "s"}`, r.diagnostics);
+  return r.plan;
+}
+
+/** Read the plan's lock; undefined when there is none yet. The raw text is returned for the change check. */
+export function loadLock(plan: Plan, lockFile: string): { lock: Lock | undefined; text: string | undefined } {
+  const text = readIfExists(lockFile);
+  if (text === undefined) return { lock: undefined, text };
+  const r = parseLock(text, lockFile, plan.name);
+  if (!r.ok) throw new UsageError(`${lockFile}: the lock cannot be used`, r.diagnostics);
+  return { lock: r.lock, text };
+}
+
+/** Allocate, turning refusals into a UsageError that lists every move. */
+export function allocateOrFail(plan: Plan, lock: Lock | undefined, options: AllocateOptions): Allocation {
+  const r = allocate(plan, lock, options);
+  if (r.ok) return r.allocation;
+  if (r.moves.length > 0 && r.diagnostics.length === 0) {
+    const lines = r.moves.map((m) => `  ${m.what}: ${m.from} -> ${m.to} (${m.reason})`);
+    throw new UsageError(`${plan.file}: this edit would renumber ${r.moves.length} locked value${r.moves.length === 1 ? "" : "s"}:\n${lines.join("\n")}\nNothing was written. Re-run with --allow-renumber to accept (old values are retired, not reused).`);
+  }
+  throw new UsageError(`${plan.file}: allocation failed`, r.diagnostics);
+}
+
+/** For emit/decode: the allocation must already be in the lock (nothing new, nothing retired). */
+export function lockedAllocation(plan: Plan, lockFile: string): Allocation {
+  const { lock } = loadLock(plan, lockFile);
+  if (!lock) throw new UsageError(`${lockFile}: no lock yet; run \`sidcarve allocate ${plan.file}\` first so that every value is recorded`);
+  const a = allocateOrFail(plan, lock, {});
+  if (a.added > 0 || a.retiredNow.length > 0 || a.lock.groups.size !== lock.groups.size || a.lock.nodes.size !== lock.nodes.size) {
+    throw new UsageError(`${plan.file}: the plan has changed since the lock was written (${a.added} new SIDs, ${a.retiredNow.length} retired values); run \`sidcarve allocate ${plan.file}\` first and review the lock`);
+  }
+  return a;
+}

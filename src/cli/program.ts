@@ -1,0 +1,64 @@
+/**
+ * The commander program: flags to options, then a call into one command module. Each command
+ * returns its exit code; nothing here writes files itself.
+ */
+import { Command, Option } from "commander";
+import type { Io } from "./context.js";
+import { runAllocate } from "./commands/allocate.js";
+import { runDecode } from "./commands/decode.js";
+import { runEmit } from "./commands/emit.js";
+import { runRelease } from "./commands/release.js";
+
+export function buildProgram(io: Io): Command & { exitCode?: number } {
+  const program = new Command() as Command & { exitCode?: number };
+  const done = (code: number) => {
+    program.exitCode = code;
+  };
+  program
+    .name("sidcarve")
+    .description("Plan SRv6 SIDs: allocate locators and SIDs, lint plans and inventories, emit per-router SID tables.")
+    .version("0.1.0")
+    .exitOverride()
+    .configureOutput({ writeOut: io.out, writeErr: io.err })
+    .showHelpAfterError();
+
+  program
+    .command("allocate")
+    .description("allocate locators and SIDs for PLAN and record them in its lock file")
+    .argument("<plan>", "plan file (YAML or JSON)")
+    .option("--lock <file>", "lock file (default: <plan>.lock.json beside the plan)")
+    .option("--allow-renumber", "accept edits that move locked values (old values are retired)")
+    .option("--dry-run", "show the result without writing the lock")
+    .action((plan: string, flags) => done(runAllocate(plan, flags, io)));
+
+  program
+    .command("emit")
+    .description("write the per-router SID tables of an allocated plan")
+    .argument("<plan>", "plan file")
+    .addOption(new Option("--format <format>", "table format").choices(["csv", "json"]).default("csv"))
+    .option("--out <dir>", "folder to write into (default: standard output)")
+    .option("--per-node", "one file per node")
+    .option("--lock <file>", "lock file (default: <plan>.lock.json beside the plan)")
+    .option("--force", "overwrite files that sidcarve did not write")
+    .action((plan: string, flags) => done(runEmit(plan, flags, io)));
+
+  program
+    .command("decode")
+    .description("explain addresses: block, levels, node, behaviour, function and argument")
+    .argument("<address...>", "IPv6 addresses")
+    .requiredOption("--plan <plan>", "plan file")
+    .option("--lock <file>", "lock file")
+    .addOption(new Option("--format <format>", "output format").choices(["text", "json"]).default("text"))
+    .action((addresses: string[], flags) => done(runDecode(addresses, flags, io)));
+
+  program
+    .command("release")
+    .description("return retired values to the free pool")
+    .argument("<plan>", "plan file")
+    .argument("[names...]", "former holders: group paths, node or anycast names, SID keys")
+    .option("--all", "release every retired value")
+    .option("--lock <file>", "lock file")
+    .action((plan: string, names: string[], flags) => done(runRelease(plan, names, flags, io)));
+
+  return program;
+}

@@ -1,0 +1,270 @@
+/**
+ * Reading plan text (YAML or JSON) into plain data while keeping a source position for every
+ * path, and turning schema errors into located diagnostics. All YAML-node code lives here.
+ */
+import { Ajv2020 } from "ajv/dist/2020.js";
+import type { ErrorObject, ValidateFunction } from "ajv";
+import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode, type Document } from "yaml";
+import { type Diagnostic, type SourceLocation, quote } from "./diagnostic.js";
+import { PLAN_SCHEMA } from "./schema.js";
+
+/** Maps a path inside the parsed data back to file:line:column. */
+export type Locator = (path: readonly (string | number)[]) => SourceLocation;
+
+/** Parsed data with its locator, or the diagnostics that stopped parsing. */
+export type SourceResult =
+  | { ok: true; data: unknown; locate: Locator }
+  | { ok: false; diagnostics: Diagnostic[] };
+
+/** Largest input we read, in characters: far above any real plan, it bounds time and memory. */
+export const MAX_SOURCE_CHARS = 64 * 1024 * 1024;
+/** Deepest nesting accepted; plans are a handful of levels deep. */
+export const MAX_DEPTH = 64;
+
+/**
+ * Decode raw bytes as UTF-8 (a leading BOM is dropped). Non-UTF-8 input is a diagnostic, not
+ * a replacement character hidden in a node name.
+ */
+export function decodeUtf8(bytes: Uint8Array, file: string): { ok: true; text: string } | { ok: false; diagnostics: Diagnostic[] } {
+  try {
+    let text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+    if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+    return { ok: true, text };
+  } catch {
+    let offset = 0;
+    // find the first bad byte for the message
+    for (; offset < bytes.length; offset++) {
+      try {
+        new TextDecoder("utf-8", { fatal: true }).decode(bytes.subarray(0, offset + 1), { stream: true });
+      } catch {
+        break;
+      }
+    }
+    const before = new TextDecoder().decode(bytes.subarray(0, offset));
+    const line = before.split("\n").length;
+    return {
+      ok: false,
+      diagnostics: [
+        {
+          code: "input/encoding",
+          message: `the file is not valid UTF-8 (byte 0x${(bytes[offset] ?? 0).toString(16).padStart(2, "0")} at offset ${offset}); save it as UTF-8`,
+          location: { file, line },
+        },
+      ],
+    };
+  }
+}
+
+/** Parse YAML or JSON text, keeping positions. Syntax errors, duplicate keys and alias bombs become diagnostics. */
+export function parseSource(text: string, file: string): SourceResult {
+  if (text.length > MAX_SOURCE_CHARS) {
+    return { ok: false, diagnostics: [{ code: "input/too-large", message: `the file has ${text.length} characters; at most ${MAX_SOURCE_CHARS} are read`, location: { file } }] };
+  }
+  if (text.includes("\u0000")) {
+    const at = text.indexOf("\u0000");
+    const line = text.slice(0, at).split("\n").length;
+    return { ok: false, diagnostics: [{ code: "input/binary", message: "the file contains a NUL byte: it looks like binary data, not a YAML or JSON plan", location: { file, line } }] };
+  }
+  if (text.trim() === "") {
+    return { ok: false, diagnostics: [{ code: "input/empty", message: "the file is empty; a plan needs at least sidcarve, plan, blocks, levels and nodes", location: { file, line: 1, column: 1 } }] };
+  }
+  const lineCounter = new LineCounter();
+  let doc: Document.Parsed;
+  try {
+    doc = parseDocument(text, { lineCounter, uniqueKeys: true, prettyErrors: false, strict: true });
+  } catch (e) {
+    return { ok: false, diagnostics: [{ code: "yaml/syntax", message: `the file could not be read as YAML or JSON: ${(e as Error).message}`, location: { file } }] };
+  }
+  const pos = (offset: number | undefined) => {
+    if (offset === undefined) return {};
+    const p = lineCounter.linePos(offset);
+    return { line: p.line, column: p.col };
+  };
+  if (doc.errors.length > 0) {
+    return {
+      ok: false,
+      diagnostics: doc.errors.slice(0, 20).map((err) => ({
+        code: err.code === "DUPLICATE_KEY" ? "yaml/duplicate-key" : "yaml/syntax",
+        message: firstLine(err.message),
+        location: { file, ...pos(err.pos[0]) },
+      })),
+    };
+  }
+  let data: unknown;
+  try {
+    // maxAliasCount bounds alias expansion ("billion laughs"); the yaml library throws past it.
+    data = doc.toJS({ maxAliasCount: 1000 });
+  } catch (e) {
+    const msg = (e as Error).message || String(e);
+    const bomb = /alias/i.test(msg);
+    return {
+      ok: false,
+      diagnostics: [
+        {
+          code: bomb ? "yaml/alias-limit" : "yaml/syntax",
+          message: bomb ? "the file expands aliases too many times (an alias bomb?); write the values out instead of nesting aliases" : firstLine(msg),
+          location: { file, line: 1, column: 1 },
+        },
+      ],
+    };
+  }
+  const depth = depthOf(data, 0);
+  if (depth > MAX_DEPTH) {
+    return { ok: false, diagnostics: [{ code: "input/too-deep", message: `the data is nested ${depth > 10000 ? "more than 10000" : depth} levels deep; at most ${MAX_DEPTH} are allowed`, location: { file, line: 1, column: 1 } }] };
+  }
+  const locate: Locator = (path) => {
+    let node: unknown = doc.contents;
+    let found: YamlNode | undefined = doc.contents ?? undefined;
+    const walked: (string | number)[] = [];
+    for (const key of path) {
+      if (isMap(node)) {
+        const pair = node.items.find((it) => isScalar(it.key) && String(it.key.value) === String(key));
+        if (!pair) break;
+        node = pair.value;
+        found = (isScalar(pair.value) || isMap(pair.value) || isSeq(pair.value) ? (pair.value as YamlNode) : (pair.key as YamlNode)) ?? found;
+      } else if (isSeq(node) && typeof key === "number") {
+        const item = node.items[key];
+        if (item === undefined) break;
+        node = item;
+        found = item as YamlNode;
+      } else break;
+      walked.push(key);
+    }
+    return { file, ...pos(found?.range?.[0]), path: [...path] };
+  };
+  return { ok: true, data, locate };
+}
+
+function firstLine(s: string): string {
+  return s.split("\n")[0]!.trim();
+}
+
+function depthOf(v: unknown, d: number): number {
+  if (d > 10000) return d;
+  if (Array.isArray(v)) {
+    let m = d + 1;
+    for (const x of v) m = Math.max(m, depthOf(x, d + 1));
+    return m;
+  }
+  if (v !== null && typeof v === "object") {
+    let m = d + 1;
+    for (const x of Object.values(v)) m = Math.max(m, depthOf(x, d + 1));
+    return m;
+  }
+  return d;
+}
+
+let planValidator: ValidateFunction | undefined;
+
+/** Validate plan data against the plan schema; each error is located and says what is allowed. */
+export function validatePlanData(data: unknown, locate: Locator): Diagnostic[] {
+  if (!planValidator) {
+    const ajv = new Ajv2020({ allErrors: true, strict: false });
+    planValidator = ajv.compile(PLAN_SCHEMA);
+  }
+  if (planValidator(data)) return [];
+  return schemaDiagnostics(planValidator.errors ?? [], data, locate);
+}
+
+/** Turn ajv errors into diagnostics, dropping the noise that oneOf produces. */
+export function schemaDiagnostics(errors: readonly ErrorObject[], data: unknown, locate: Locator): Diagnostic[] {
+  const out: Diagnostic[] = [];
+  const seen = new Set<string>();
+  // For oneOf failures ajv reports every branch; keep one message per path.
+  const oneOfPaths = new Set(errors.filter((e) => e.keyword === "oneOf").map((e) => e.instancePath));
+  for (const e of errors) {
+    const path = pointerToPath(e.instancePath);
+    if (oneOfPaths.has(e.instancePath) && e.keyword !== "oneOf") continue;
+    let message: string;
+    let at = path;
+    const value = valueAt(data, path);
+    const where = path.length ? `${path[path.length - 1]}` : "the plan";
+    switch (e.keyword) {
+      case "required":
+        message = `missing key ${quote((e.params as { missingProperty: string }).missingProperty)} in ${path.length ? where : "the plan"}`;
+        break;
+      case "additionalProperties": {
+        const key = (e.params as { additionalProperty: string }).additionalProperty;
+        at = [...path, key];
+        const allowed = allowedKeys(e.parentSchema);
+        message = `unknown key ${quote(key)}${allowed ? `; allowed here: ${allowed}` : ""}`;
+        break;
+      }
+      case "enum":
+        message = `${quote(value)} is not allowed for ${where}; allowed: ${((e.params as { allowedValues: unknown[] }).allowedValues ?? []).map((v) => quote(v)).join(", ")}`;
+        break;
+      case "const":
+        message = `${quote(value)} is not allowed for ${where}; it must be ${quote((e.params as { allowedValue: unknown }).allowedValue)}`;
+        break;
+      case "type":
+        message = `${where} is ${describe(value)}; it must be ${(e.params as { type: string }).type}`;
+        break;
+      case "oneOf":
+        message = `${quote(value)} is not valid for ${where}; ${oneOfHint(e.schema)}`;
+        break;
+      case "minimum":
+      case "maximum":
+      case "exclusiveMinimum":
+      case "exclusiveMaximum":
+        message = `${quote(value)} is out of range for ${where}; it must be ${e.message}`;
+        break;
+      case "pattern":
+        message = `${quote(value)} is not valid for ${where}; ${patternHint(where)}`;
+        break;
+      case "uniqueItems":
+        message = `${where} lists the same item twice (items ${(e.params as { i: number; j: number }).j} and ${(e.params as { i: number }).i})`;
+        break;
+      default:
+        message = `${quote(value)} is not valid for ${where}: ${e.message ?? e.keyword}`;
+    }
+    const key = `${at.join("/")}|${message}`;
+    if (seen.has(key)) continue;
+    seen.add(key);
+    out.push({ code: `schema/${e.keyword}`, message, location: locate(at) });
+    if (out.length >= 50) break;
+  }
+  return out;
+}
+
+function allowedKeys(schema: unknown): string | undefined {
+  const props = (schema as { properties?: Record<string, unknown> } | undefined)?.properties;
+  return props ? Object.keys(props).join(", ") : undefined;
+}
+
+function oneOfHint(schema: unknown): string {
+  const branches = Array.isArray(schema) ? (schema as { type?: string; pattern?: string }[]) : [];
+  if (branches.some((b) => b.pattern?.includes("0[xX]"))) return "write a whole number (e.g. 12 or \"0x0c\") or a range \"first-last\"";
+  if (branches.some((b) => b.type === "object")) return "write a node name, or an object with node and optional interface/function";
+  return "see schemas/plan.schema.json";
+}
+
+function patternHint(where: string): string {
+  if (where === "expires") return "write a date as YYYY-MM-DD";
+  return "names may not contain control characters";
+}
+
+function describe(v: unknown): string {
+  if (v === null) return "null";
+  if (Array.isArray(v)) return "a list";
+  if (typeof v === "object") return "a mapping";
+  return `${typeof v} ${quote(v)}`;
+}
+
+/** JSON Pointer (RFC 6901) to path segments; numeric segments become numbers. */
+export function pointerToPath(pointer: string): (string | number)[] {
+  if (pointer === "") return [];
+  return pointer
+    .slice(1)
+    .split("/")
+    .map((s) => s.replace(/~1/g, "/").replace(/~0/g, "~"))
+    .map((s) => (/^(0|[1-9]\d*)$/.test(s) ? Number(s) : s));
+}
+
+function valueAt(data: unknown, path: readonly (string | number)[]): unknown {
+  let v: unknown = data;
+  for (const k of path) {
+    if (v === null || typeof v !== "object") return undefined;
+    v = (v as Record<string | number, unknown>)[k];
+  }
+  return v;
+}

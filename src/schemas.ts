@@ -1,0 +1,8 @@
+/** Every JSON Schema we publish, by file name under schemas/. */
+import { SID_TABLE_SCHEMA } from "./emit/table-schema.js";
+import { PLAN_SCHEMA } from "./plan/schema.js";
+
+export const schemaFiles: Readonly<Record<string, unknown>> = {
+  "plan.schema.json": PLAN_SCHEMA,
+  "sid-table.schema.json": SID_TABLE_SCHEMA,
+};
