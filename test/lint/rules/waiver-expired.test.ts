@@ -6,7 +6,7 @@ import { ALL_RULES } from "../../../src/lint/rules/index.js";
 import { TODAY, csv, lintCsvWith, lintPlanWith, loadPlan, smallPlan } from "../harness.js";
 
 const RULE = "waiver-expired";
-const waiver = (expires: string) => ({ lint: { waivers: [{ rule: "sid-duplicate", objects: ["r1"], reason: "migration window", expires }] } });
+const waiver = (expires: string, objects = ["r1"]) => ({ lint: { waivers: [{ rule: "sid-duplicate", objects, reason: "migration window", expires }] } });
 
 describe(RULE, () => {
   it("valid: a waiver that has not expired", () => {
@@ -19,8 +19,9 @@ describe(RULE, () => {
   });
   it("a valid waiver hides the findings of its rule for the named objects; an expired one does not", () => {
     const t = csv("a,0,5f00:0:100:1::/64,5f00:0:100:1:1::,End,,1,0x1,48,16,16,0,", "b,0,5f00:0:100:2::/64,5f00:0:100:1:1::,End,,1,0x1,48,16,16,0,");
-    expect(lintCsvWith("sid-duplicate", t, smallPlan(waiver("2099-01-01")))).toEqual([]);
-    expect(lintCsvWith("sid-duplicate", t, smallPlan(waiver("2020-01-01")))).toHaveLength(1);
+    expect(lintCsvWith("sid-duplicate", t, smallPlan(waiver("2099-01-01", ["a"])))).toEqual([]);
+    expect(lintCsvWith("sid-duplicate", t, smallPlan(waiver("2099-01-01", ["c"])))).toHaveLength(1);
+    expect(lintCsvWith("sid-duplicate", t, smallPlan(waiver("2020-01-01", ["a"])))).toHaveLength(1);
   });
   it("severity set to off in the plan keeps the rule from running", () => {
     const plan = loadPlan(smallPlan({ lint: { severity: { "locator-overlap": "off" } } }));
