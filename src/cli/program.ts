@@ -7,7 +7,10 @@ import type { Io } from "./context.js";
 import { runAllocate } from "./commands/allocate.js";
 import { runDecode } from "./commands/decode.js";
 import { runEmit } from "./commands/emit.js";
+import { runLint } from "./commands/lint.js";
 import { runRelease } from "./commands/release.js";
+import { runRules } from "./commands/rules.js";
+import { VERSION } from "./version.js";
 
 export function buildProgram(io: Io): Command & { exitCode?: number } {
   const program = new Command() as Command & { exitCode?: number };
@@ -17,7 +20,7 @@ export function buildProgram(io: Io): Command & { exitCode?: number } {
   program
     .name("sidcarve")
     .description("Plan SRv6 SIDs: allocate locators and SIDs, lint plans and inventories, emit per-router SID tables.")
-    .version("0.1.0")
+    .version(VERSION)
     .exitOverride()
     .configureOutput({ writeOut: io.out, writeErr: io.err })
     .showHelpAfterError();
@@ -50,6 +53,24 @@ export function buildProgram(io: Io): Command & { exitCode?: number } {
     .option("--lock <file>", "lock file")
     .addOption(new Option("--format <format>", "output format").choices(["text", "json"]).default("text"))
     .action((addresses: string[], flags) => done(runDecode(addresses, flags, io)));
+
+  program
+    .command("lint")
+    .description("check a plan's allocation, or a SID table from a live network, before rollout")
+    .argument("<input>", "a plan (YAML/JSON) or a SID table (.csv, or .json in the sid-table format)")
+    .option("--plan <plan>", "with a SID table: the plan that declares summaries, infrastructure, anycast groups and pools")
+    .option("--lock <file>", "with a plan: its lock file")
+    .addOption(new Option("--format <format>", "report format").choices(["text", "json", "sarif"]).default("text"))
+    .addOption(new Option("--fail-on <severity>", "exit 1 when a finding at or above this severity remains").choices(["error", "warning", "info"]).default("error"))
+    .option("--report <file>", "write the report to a file (atomically) instead of standard output")
+    .action((input: string, flags) => done(runLint(input, flags, io)));
+
+  program
+    .command("rules")
+    .description("list every lint rule, or explain one")
+    .argument("[id]", "rule id")
+    .addOption(new Option("--format <format>", "output format").choices(["text", "json"]).default("text"))
+    .action((id: string | undefined, flags) => done(runRules(id, flags, io)));
 
   program
     .command("release")

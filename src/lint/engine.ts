@@ -52,14 +52,14 @@ export function runLint(input: LintInput, rules: readonly Rule[], options: LintO
   const locateNode = (node: string): SourceLocation => {
     if (input.fromTable) {
       const row = firstRow.get(node);
-      return row !== undefined ? { file: input.file, row, field: "node" } : { file: input.file };
+      return row !== undefined ? { file: input.file, row, line: input.lineOf?.(row), field: "node" } : { file: input.file };
     }
     const i = nodeIndex.get(node);
     if (i !== undefined) return locatePlan(["nodes", i]);
     const a = input.plan?.anycast.findIndex((x) => `anycast:${x.name}` === node || x.name === node) ?? -1;
     return a >= 0 ? locatePlan(["anycast", a]) : { file: input.file };
   };
-  const locateSid = (s: OwnedSid): SourceLocation => (s.entry.row !== undefined ? { file: input.file, row: s.entry.row } : locateNode(s.node));
+  const locateSid = (s: OwnedSid): SourceLocation => (s.entry.row !== undefined ? { file: input.file, row: s.entry.row, line: input.lineOf?.(s.entry.row) } : locateNode(s.node));
 
   const findings: Finding[] = [];
   const rulesRun: string[] = [];

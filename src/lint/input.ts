@@ -19,5 +19,5 @@ export function inputFromAllocation(a: Allocation, today: string): LintInput {
 
 /** Lint a SID table from a file; `plan` adds declared summaries, infrastructure, anycast groups and pools. */
 export function inputFromTable(read: ReadTableResult, file: string, today: string, plan?: Plan): LintInput {
-  return { table: read.table, file, plan, fromTable: true, rowProblems: read.problems, today };
+  return { table: read.table, file, plan, fromTable: true, rowProblems: read.problems, today, lineOf: read.lineOf };
 }

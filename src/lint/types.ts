@@ -75,6 +75,8 @@ export interface LintInput {
   readonly rowProblems: readonly RowProblem[];
   /** "Today" (YYYY-MM-DD) for waiver expiry. */
   readonly today: string;
+  /** Line of a table row in its file, when known (CSV). */
+  readonly lineOf?: (row: number) => number | undefined;
 }
 
 /** A table row that could not be read in full. */

@@ -38,7 +38,7 @@ export function formatPath(path: readonly (string | number)[] | undefined): stri
 export function formatLocation(loc: SourceLocation): string {
   let s = loc.file;
   if (loc.line !== undefined) s += `:${loc.line}${loc.column !== undefined ? `:${loc.column}` : ""}`;
-  if (loc.row !== undefined) s += `: row ${loc.row}${loc.field ? `, column ${loc.field}` : ""}`;
+  if (loc.row !== undefined) s += ` (row ${loc.row}${loc.field ? `, column ${loc.field}` : ""})`;
   const p = formatPath(loc.path);
   if (p) s += ` (${p})`;
   return s;

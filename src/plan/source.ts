@@ -8,8 +8,13 @@ import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNo
 import { type Diagnostic, type SourceLocation, quote } from "./diagnostic.js";
 import { PLAN_SCHEMA } from "./schema.js";
 
-/** Maps a path inside the parsed data back to file:line:column. */
-export type Locator = (path: readonly (string | number)[]) => SourceLocation;
+/**
+ * Maps a path inside the parsed data back to file:line:column. A scalar is located at its value;
+ * a mapping or list value (which in block style starts on the line after its key) at its key, as
+ * is any value when `options.key` is set (e.g. for an unknown key). A path that leaves the
+ * document is located at the nearest ancestor that exists.
+ */
+export type Locator = (path: readonly (string | number)[], options?: { readonly key?: boolean }) => SourceLocation;
 
 /** Parsed data with its locator, or the diagnostics that stopped parsing. */
 export type SourceResult =
@@ -112,23 +117,23 @@ export function parseSource(text: string, file: string): SourceResult {
   if (depth > MAX_DEPTH) {
     return { ok: false, diagnostics: [{ code: "input/too-deep", message: `the data is nested ${depth > 10000 ? "more than 10000" : depth} levels deep; at most ${MAX_DEPTH} are allowed`, location: { file, line: 1, column: 1 } }] };
   }
-  const locate: Locator = (path) => {
+  const locate: Locator = (path, options) => {
     let node: unknown = doc.contents;
     let found: YamlNode | undefined = doc.contents ?? undefined;
-    const walked: (string | number)[] = [];
-    for (const key of path) {
+    for (const [i, key] of path.entries()) {
       if (isMap(node)) {
         const pair = node.items.find((it) => isScalar(it.key) && String(it.key.value) === String(key));
         if (!pair) break;
         node = pair.value;
-        found = (isScalar(pair.value) || isMap(pair.value) || isSeq(pair.value) ? (pair.value as YamlNode) : (pair.key as YamlNode)) ?? found;
+        // Pointing at a block mapping or list value would name the line after its key.
+        const atKey = !isScalar(pair.value) || (options?.key === true && i === path.length - 1);
+        found = ((atKey ? pair.key : pair.value) as YamlNode | null) ?? found;
       } else if (isSeq(node) && typeof key === "number") {
         const item = node.items[key];
         if (item === undefined) break;
         node = item;
         found = item as YamlNode;
       } else break;
-      walked.push(key);
     }
     return { file, ...pos(found?.range?.[0]), path: [...path] };
   };
@@ -220,7 +225,7 @@ export function schemaDiagnostics(errors: readonly ErrorObject[], data: unknown,
     const key = `${at.join("/")}|${message}`;
     if (seen.has(key)) continue;
     seen.add(key);
-    out.push({ code: `schema/${e.keyword}`, message, location: locate(at) });
+    out.push({ code: `schema/${e.keyword}`, message, location: locate(at, { key: e.keyword === "additionalProperties" }) });
     if (out.length >= 50) break;
   }
   return out;

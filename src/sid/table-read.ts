@@ -20,6 +20,8 @@ export interface ReadTableResult {
   readonly problems: readonly TableProblem[];
   /** True when the table could not be read at all (no header, wrong schema); problems say why. */
   readonly unreadable: boolean;
+  /** The 1-based line of a data row (CSV; row 0 is the header), when known. */
+  readonly lineOf?: (row: number) => number | undefined;
 }
 
 /** Columns a CSV table must have. */
@@ -141,6 +143,7 @@ export function readCsvTable(text: string, plan = ""): ReadTableResult {
   let header: string[] | undefined;
   let col: Record<string, number> = {};
   let row = 0;
+  const lines: number[] = [];
   const prefixCache = new Map<string, Prefix | string>();
   const getPrefix = (s: string): Prefix | string => {
     let p = prefixCache.get(s);
@@ -159,6 +162,7 @@ export function readCsvTable(text: string, plan = ""): ReadTableResult {
       if (!header) {
         if (cells[0]?.startsWith("#")) return;
         header = cells.map((c) => c.trim());
+        lines[0] = line;
         const missing = REQUIRED_COLUMNS.filter((c) => !header!.includes(c));
         if (missing.length) {
           problems.push({ row: 0, field: missing.join(","), message: `the header lacks the required column${missing.length > 1 ? "s" : ""} ${missing.join(", ")}; required: ${REQUIRED_COLUMNS.join(", ")}`, value: header.join(",") });
@@ -173,6 +177,7 @@ export function readCsvTable(text: string, plan = ""): ReadTableResult {
         return;
       }
       row++;
+      lines[row] = line;
       if (cells.length !== header.length) {
         problems.push({ row, field: "", message: `row has ${cells.length} cells but the header has ${header.length} columns (line ${line})`, value: cells.join(",").slice(0, 80) });
         return;
@@ -238,7 +243,7 @@ export function readCsvTable(text: string, plan = ""): ReadTableResult {
     problems.push({ row: 0, field: "", message: `the table has no header line; the first line must name the columns (required: ${REQUIRED_COLUMNS.join(", ")})`, value: "" });
     fatal = true;
   }
-  return { table: finish(plan, b), problems, unreadable: fatal };
+  return { table: finish(plan, b), problems, unreadable: fatal, lineOf: (r) => lines[r] };
 }
 
 /** A binding identity for rows that come from a table: behaviour and its context (used by diff). */

@@ -14,7 +14,7 @@ export const tableRow: Rule = {
     for (const p of ctx.input.rowProblems) {
       ctx.report({
         message: p.message,
-        location: { file: ctx.input.file, row: p.row, field: p.field || undefined },
+        location: { file: ctx.input.file, row: p.row, line: ctx.input.lineOf?.(p.row), field: p.field || undefined },
         objects: p.value ? [p.value] : [],
         hint: p.row === 0 ? "fix the header line" : "correct or remove the row",
         data: { row: p.row, field: p.field },

@@ -1,0 +1,63 @@
+/** `sidcarve lint INPUT [--plan PLAN]`: lint a plan's allocation or a SID table from an inventory. */
+import { extname } from "node:path";
+import { lintJson, lintSarif, lintText } from "../../emit/lint-report.js";
+import { type LintResult, failExitCode } from "../../lint/engine.js";
+import { isoDay } from "../../lint/input.js";
+import { lintAllocation, lintTable } from "../../lint/lint.js";
+import { ALL_RULES } from "../../lint/rules/index.js";
+import type { FindingSeverity } from "../../lint/types.js";
+import { decodeUtf8 } from "../../plan/source.js";
+import { readCsvTable, readJsonTable } from "../../sid/table-read.js";
+import type { Io } from "../context.js";
+import { UsageError, readInput, writeAtomic } from "../io.js";
+import { allocateOrFail, loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
+import { VERSION } from "../version.js";
+
+export interface LintFlags {
+  readonly plan?: string;
+  readonly lock?: string;
+  readonly format?: string;
+  readonly failOn?: string;
+  readonly report?: string;
+}
+
+/** What kind of file INPUT is: a CSV table, a JSON table, or a plan. */
+export function inputKind(file: string, bytes: Uint8Array): "csv" | "json-table" | "plan" {
+  const ext = extname(file).toLowerCase();
+  if (ext === ".csv") return "csv";
+  if (ext === ".json") {
+    const head = Buffer.from(bytes.subarray(0, 4096)).toString("utf8");
+    if (/"schema"\s*:\s*"sidcarve\/sid-table\//.test(head)) return "json-table";
+  }
+  return "plan";
+}
+
+export function runLint(input: string, flags: LintFlags, io: Io): number {
+  const failOn = (flags.failOn ?? "error") as FindingSeverity;
+  const today = isoDay(io.now);
+  const bytes = readInput(input);
+  const kind = inputKind(input, bytes);
+  let result: LintResult;
+  if (kind === "plan") {
+    if (flags.plan) throw new UsageError(`${input} is a plan; --plan is only for SID tables`);
+    const plan = loadPlanFile(input);
+    const { lock } = loadLock(plan, lockPathFor(input, flags.lock));
+    result = lintAllocation(allocateOrFail(plan, lock, {}), today);
+  } else {
+    const d = decodeUtf8(bytes, input);
+    if (!d.ok) throw new UsageError(`${input}: cannot be read`, d.diagnostics);
+    const read = kind === "csv" ? readCsvTable(d.text) : readJsonTable(d.text);
+    if (read.unreadable) {
+      throw new UsageError(`${input}: not a SID table: ${read.problems.map((p) => p.message).join("; ")}`);
+    }
+    const plan = flags.plan ? loadPlanFile(flags.plan) : undefined;
+    result = lintTable(read, input, today, plan);
+  }
+  const text =
+    flags.format === "json" ? lintJson(result, input) : flags.format === "sarif" ? lintSarif(result, ALL_RULES.map((r) => r.meta), VERSION) : lintText(result, input, io.isTty);
+  if (flags.report) {
+    writeAtomic(flags.report, [text]);
+    io.out(`${input}: ${result.counts.error} errors, ${result.counts.warning} warnings, ${result.counts.info} info; report written to ${flags.report}\n`);
+  } else io.out(text);
+  return failExitCode(result, failOn);
+}
