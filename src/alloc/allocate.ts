@@ -86,7 +86,16 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     lock = emptyLock(plan.name, layout);
   }
   const retired = [...lock.retired];
-  const retiredIn = (kind: RetiredValue["kind"], space: string) => new Set(retired.filter((r) => r.kind === kind && r.space === space).map((r) => r.value));
+  // Retired values by kind and space, indexed once (callers copy the set before adding to it).
+  const retiredBySpace = new Map<string, Set<bigint>>();
+  for (const r of retired) {
+    const k = `${r.kind}|${r.space}`;
+    let set = retiredBySpace.get(k);
+    if (!set) retiredBySpace.set(k, (set = new Set()));
+    set.add(r.value);
+  }
+  const noRetired: ReadonlySet<bigint> = new Set();
+  const retiredIn = (kind: RetiredValue["kind"], space: string): ReadonlySet<bigint> => retiredBySpace.get(`${kind}|${space}`) ?? noRetired;
 
   // ---- level values for groups, parent by parent in file order
   const groupValues = new Map<string, bigint>();
@@ -97,10 +106,39 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     byParent.get(k)!.push(g);
   }
   const groupPath = (path: string): (string | number)[] => ["groups", ...path.split("/").flatMap((p, i) => (i === 0 ? [p] : ["groups", p]))];
+  const allLevelBits = plan.levels.reduce((s, l) => s + l.bits, 0);
+  /**
+   * A new group value is usable only when its nodes can get node C-SIDs: in every two-C-SID
+   * compressed block that may serve the group, the node fields under the value (for each of the
+   * block's algorithms) must meet the GIB (RFC 9800 §5). Otherwise a region could take, say,
+   * 0xc in front of a LIB at 0xc000 and every router in it would fail with "level full".
+   */
+  const groupFits = (path: string, parent: string, depth: number, v: bigint): boolean => {
+    let prefix = 0n;
+    if (parent !== "") parent.split("/").forEach((_, i, parts) => (prefix = (prefix << BigInt(plan.levels[i]!.bits)) | (groupValues.get(parts.slice(0, i + 1).join("/")) ?? 0n)));
+    const below = BigInt(allLevelBits - plan.levels.slice(0, depth + 1).reduce((s, l) => s + l.bits, 0));
+    const lo = ((prefix << BigInt(plan.levels[depth]!.bits)) | v) << below;
+    const hi = lo + (1n << below) - 1n;
+    for (const b of plan.blocks) {
+      const L = b.layout;
+      if (L.kind !== "compressed" || !L.twoCsid) continue;
+      if (b.groups.length > 0 && !b.groups.some((g) => g === path || path.startsWith(g + "/") || g.startsWith(path + "/"))) continue;
+      for (let i = 0; i < b.algorithms.length; i++) {
+        const a = BigInt(i) << BigInt(allLevelBits);
+        if (!L.gib.some((r) => r.first <= (a | hi) && r.last >= (a | lo))) return false;
+      }
+    }
+    return true;
+  };
   for (const [parent, kids] of byParent) {
     const level = plan.levels[kids[0]!.depth]!;
     const items = kids.map((g) => ({ id: g.path, pinned: g.pinned, locked: lock.groups.get(g.path), at: groupPath(g.path), label: `group ${g.path}` }));
-    const values = assignLevel(level, items, retiredIn("group", parent), () => true, allow, moves, diags, plan.locate);
+    // Values of groups that leave the plan in this run are retired below: no new group may take them now.
+    const leaving = new Set<bigint>();
+    for (const [path, v] of lock.groups) if ((path.includes("/") ? path.slice(0, path.lastIndexOf("/")) : "") === parent && !plan.groups.some((g) => g.path === path)) leaving.add(v);
+    // Locked values stay as they are (a value that cannot hold nodes shows up when a node is added).
+    const fits = (id: string, v: bigint) => lock.groups.get(id) === v || groupFits(id, parent, kids[0]!.depth, v);
+    const values = assignLevel(level, items, retiredIn("group", parent), fits, allow, moves, diags, plan.locate, leaving);
     for (const [id, v] of values) groupValues.set(id, v);
     // retire groups of this parent that left the plan
   }
@@ -156,7 +194,12 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     if (!byPlace.has(e.place)) byPlace.set(e.place, []);
     byPlace.get(e.place)!.push(e);
   }
+  const placeOf = new Map(entities.map((e) => [e.id, e.place]));
   for (const [place, list] of byPlace) {
+    // Values of nodes that leave this place in this run (removed or moved) are retired below: no
+    // new node may take them now.
+    const leaving = new Set<bigint>();
+    for (const [id, l] of lock.nodes) if (l.place === place && placeOf.get(id) !== place) leaving.add(l.value);
     const items = list.map((e) => {
       const l = lock.nodes.get(e.id);
       let locked = l?.value;
@@ -178,6 +221,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       moves,
       diags,
       plan.locate,
+      leaving,
     );
     for (const [id, v] of values) {
       const old = lock.nodes.get(id);
@@ -191,7 +235,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     if (v !== undefined) leafValues.set(e.id, { place: e.place, value: v & ((1n << BigInt(last.bits)) - 1n) });
   }
   for (const [id, l] of lock.nodes) {
-    if (!entities.some((e) => e.id === id)) retiredNow.push({ kind: "node", space: l.place, value: l.value, was: id });
+    if (!placeOf.has(id)) retiredNow.push({ kind: "node", space: l.place, value: l.value, was: id });
   }
   if (diags.length > 0 || (moves.length > 0 && !allow)) return { ok: false, diagnostics: diags, moves };
 
@@ -222,6 +266,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const locLen = L.blockBits + L.nodeBits;
       const locator = new Prefix(b.prefix.first | (field << BigInt(128 - locLen)), locLen);
       locators.push({ prefix: locator, algorithm: algo, block: b.name, anycast: anycastName ?? "" });
+      const locFirst = locator.first;
       const firstEnd = endSpecs(plan, algo)[0]?.key;
       // Two-C-SID layouts: the first End SID is the node's global C-SID alone (no local C-SID).
       const specs = (anycastName ? endSpecs(plan, algo) : (specsFor.get(owner) ?? []).filter((s) => s.algorithm === algo || s.algorithm === undefined)).map((s) =>
@@ -229,6 +274,13 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       );
       const space = `${owner}|${algo}`;
       const taken = new Set<bigint>(retiredIn("function", space));
+      // Values of this locator's SIDs that leave the plan in this run are retired below: keep them
+      // out of pass 2 too, or a new SID would take a value the lock also lists as retired.
+      // each spec's lock key, made once per locator (the loops below look it up several times)
+      const keys = specs.map((s) => `${algo}|${s.key}`);
+      const specKeys = new Set(keys);
+      const algoPrefix = `${algo}|`;
+      for (const [k, v] of lockedFns) if (k.startsWith(algoPrefix) && !specKeys.has(k)) taken.add(v);
       const pools = poolsFor(plan, L);
       const fnMax = (1n << BigInt(L.functionBits)) - 1n;
       const fits = (v: bigint) => {
@@ -242,8 +294,9 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       };
       // pass 1: pins and locked values
       const chosen = new Map<string, bigint>();
-      for (const s of specs) {
-        const key = `${algo}|${s.key}`;
+      for (let si = 0; si < specs.length; si++) {
+        const s = specs[si]!;
+        const key = keys[si]!;
         if (s.noFunction) continue;
         const locked = lockedFns.get(key);
         if (s.pinned !== undefined) {
@@ -255,6 +308,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
             moves.push({ what: `${owner} ${s.behavior} ${s.key}`, from: hex(locked), to: hex(s.pinned), reason: "its pinned function value changed" });
             if (!allow) continue;
             retiredNow.push({ kind: "function", space, value: locked, was: key });
+            taken.add(locked);
           }
           if (taken.has(s.pinned)) {
             diags.push({ code: "alloc/pin-conflict", message: `function ${hex(s.pinned)} pinned for ${s.behavior} ${quote(s.key)} on ${owner} is already used or retired on that locator`, location: plan.locate(s.at) });
@@ -268,6 +322,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
             moves.push({ what: `${owner} ${s.behavior} ${s.key}`, from: hex(locked), to: "(a new value)", reason: `${hex(locked)} is no longer in the ${s.pool} pool` });
             if (!allow) continue;
             retiredNow.push({ kind: "function", space, value: locked, was: key });
+            taken.add(locked);
             continue;
           }
           if (taken.has(locked)) {
@@ -280,8 +335,9 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       }
       // pass 2: new values, first free in each pool
       const cursors = new Map<PoolKind, { range: number; next: bigint }>();
-      for (const s of specs) {
-        const key = `${algo}|${s.key}`;
+      for (let si = 0; si < specs.length; si++) {
+        const s = specs[si]!;
+        const key = keys[si]!;
         if (s.noFunction || chosen.has(key)) continue;
         const pool = pools[s.pool];
         const cur = cursors.get(s.pool) ?? { range: 0, next: pool[0]?.first ?? 0n };
@@ -318,12 +374,13 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
         if (!prev || used > prev.used) poolMax.set(k, { used, cap: rangeSize(pool), where: owner });
       }
       // SIDs
-      for (const s of specs) {
-        const key = `${algo}|${s.key}`;
+      for (let si = 0; si < specs.length; si++) {
+        const s = specs[si]!;
+        const key = keys[si]!;
         const fn = s.noFunction ? 0n : chosen.get(key);
         if (fn === undefined) continue;
         if (!s.noFunction) outFns.set(key, fn);
-        sids.push(makeSid(b, L, locator, algo, s, fn, key));
+        sids.push(makeSid(b, L, locator, locFirst, algo, s, fn, key));
       }
     }
     if (outFns.size > 0) functionsOut.set(owner, outFns);
@@ -353,7 +410,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
 
   // functions of owners that left the plan
   for (const [owner, fns] of lock.functions) {
-    if (functionsOut.has(owner) || entities.some((e) => e.id === owner)) continue;
+    if (functionsOut.has(owner) || placeOf.has(owner)) continue;
     void fns; // the owner's node value is retired; its locator with it, so its functions need not be kept
   }
   const newRetired = dedupeRetired([...retired, ...retiredNow]);
@@ -417,10 +474,11 @@ function assignLevel(
   moves: Move[],
   diags: Diagnostic[],
   locate: Plan["locate"],
+  leaving: ReadonlySet<bigint> = new Set(),
 ): Map<string, bigint> {
   const failed = new Set<string>();
   const out = new Map<string, bigint>();
-  const taken = new Set<bigint>(retired);
+  const taken = new Set<bigint>([...retired, ...leaving]);
   const hexv = (v: bigint) => "0x" + v.toString(16);
   const isReserved = (v: bigint) => inRanges(v, level.reserved);
   const pinnedBy = new Map<bigint, string>();
@@ -645,25 +703,48 @@ export function flavorsIn(L: Layout, behavior: BehaviorName, own: readonly Flavo
   return normalizeFlavors(own);
 }
 
-function makeSid(b: Block, L: Layout, locator: Prefix, algo: number, s: SidSpec, fn: bigint, key: string): SidEntry {
-  const flavors = flavorsIn(L, s.behavior, s.flavors);
-  const compressed = flavors.includes("NEXT-CSID") || flavors.includes("REPLACE-CSID");
-  const fnBits = s.noFunction ? 0 : L.functionBits;
-  const used = L.blockBits + L.nodeBits + fnBits;
-  const sid: Addr = locator.first | (s.noFunction ? 0n : fn << BigInt(128 - L.blockBits - L.nodeBits - L.functionBits));
-  let argument: number;
-  if (compressed) argument = 128 - used; // RFC 9800 §8: the rest of the address is the argument
-  else argument = s.behavior === "End.DT2M" ? L.argumentBits : 0; // RFC 8986 §4.12: only End.DT2M takes one
-  const structure: SidStructure = { block: L.blockBits, node: L.nodeBits, function: fnBits, argument };
+/** What every SID of one behaviour, flavour list and layout shares: flavours, codepoint, structure. */
+interface SidShape {
+  readonly flavors: Flavor[];
+  readonly codepoint: number | undefined;
+  readonly structure: SidStructure;
+}
+
+/** Shapes per layout, made once (a plan has a handful; a million SIDs would otherwise make a million copies). */
+const shapes = new WeakMap<Layout, Map<string, SidShape>>();
+
+function shapeOf(L: Layout, s: SidSpec): SidShape {
+  let byKey = shapes.get(L);
+  if (!byKey) shapes.set(L, (byKey = new Map()));
+  const k = `${s.behavior}|${s.noFunction ? 1 : 0}|${s.flavors.join("+")}`;
+  let shape = byKey.get(k);
+  if (!shape) {
+    const flavors = flavorsIn(L, s.behavior, s.flavors);
+    const compressed = flavors.includes("NEXT-CSID") || flavors.includes("REPLACE-CSID");
+    const fnBits = s.noFunction ? 0 : L.functionBits;
+    const used = L.blockBits + L.nodeBits + fnBits;
+    let argument: number;
+    if (compressed) argument = 128 - used; // RFC 9800 §8: the rest of the address is the argument
+    else argument = s.behavior === "End.DT2M" ? L.argumentBits : 0; // RFC 8986 §4.12: only End.DT2M takes one
+    shape = { flavors, codepoint: codepointOf(s.behavior, flavors), structure: { block: L.blockBits, node: L.nodeBits, function: fnBits, argument } };
+    byKey.set(k, shape);
+  }
+  return shape;
+}
+
+/** `locFirst` is `locator.first`, computed once per locator by the caller. */
+function makeSid(b: Block, L: Layout, locator: Prefix, locFirst: Addr, algo: number, s: SidSpec, fn: bigint, key: string): SidEntry {
+  const shape = shapeOf(L, s);
+  const sid: Addr = locFirst | (s.noFunction ? 0n : fn << BigInt(128 - L.blockBits - L.nodeBits - L.functionBits));
   return {
     sid,
     behavior: s.behavior,
-    flavors,
-    codepoint: codepointOf(s.behavior, flavors),
+    flavors: shape.flavors,
+    codepoint: shape.codepoint,
     algorithm: algo,
     locator,
     function: fn,
-    structure,
+    structure: shape.structure,
     context: s.context,
     key,
   };

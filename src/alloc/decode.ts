@@ -83,13 +83,20 @@ export class Decoder {
     // A SID with a non-zero argument (End.DT2M, C-SID containers) is found by clearing the argument.
     let sidHit = hits[0];
     let argument: bigint = 0n;
+    let trailing = false;
     if (!sidHit) {
       for (const cand of [L.blockBits + L.nodeBits + L.functionBits, L.blockBits + L.nodeBits]) {
         const masked = addr & (((1n << BigInt(cand)) - 1n) << BigInt(128 - cand));
         const h = this.bySid.get(masked);
         if (h && h[0]) {
           sidHit = h[0];
-          argument = addr - masked;
+          // The argument is the field the SID's structure declares (e.g. 16 bits of Arg.FE2), not
+          // everything after the function; bits after it must be zero (RFC 8986 §3.1).
+          const st = h[0].sid.structure;
+          const from = st ? st.block + st.node + st.function : cand;
+          const width = st ? Math.min(st.argument, 128 - from) : 128 - cand;
+          argument = getField(addr, from, width);
+          trailing = from + width < 128 && getField(addr, from + width, 128 - from - width) !== 0n;
           break;
         }
       }
@@ -98,9 +105,11 @@ export class Decoder {
       owners.length === 0
         ? "no node of the plan owns this locator (unallocated or retired value)"
         : sidHit
-          ? argument !== 0n
-            ? "SID with a non-zero argument"
-            : "SID of the plan"
+          ? trailing
+            ? "a SID of the plan, but with bits set after its argument, which must be zero (RFC 8986 §3.1)"
+            : argument !== 0n
+              ? "SID with a non-zero argument"
+              : "SID of the plan"
           : "inside a node's locator, but no SID of the plan has this function";
     return {
       address,

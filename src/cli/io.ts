@@ -3,6 +3,7 @@
  * same folder, then rename), and the rule that we only overwrite files we wrote ourselves.
  */
 import { closeSync, fsyncSync, mkdirSync, openSync, readFileSync, renameSync, rmSync, statSync, writeSync } from "node:fs";
+import { hostname } from "node:os";
 import { basename, dirname, join } from "node:path";
 import type { Diagnostic } from "../plan/diagnostic.js";
 
@@ -73,11 +74,16 @@ export function writeAtomic(path: string, chunks: Iterable<string>, options: Wri
   const dir = dirname(path);
   mkdirSync(dir, { recursive: true });
   let exists = false;
+  let st;
   try {
-    exists = statSync(path).isFile();
+    st = statSync(path);
   } catch {
-    exists = false;
+    st = undefined;
   }
+  // A folder (or device) where the file should go: renaming over it would fail after the
+  // temporary file was written, so refuse before writing anything.
+  if (st && !st.isFile()) throw new UsageError(`${path}: is ${st.isDirectory() ? "a folder" : "not a regular file"}; refusing to write a table there`);
+  exists = st !== undefined;
   if (exists && !options.force && !isOurFile(path)) {
     throw new UsageError(`${path}: exists and was not written by sidcarve; refusing to overwrite it (use --force to allow)`);
   }
@@ -96,5 +102,74 @@ export function writeAtomic(path: string, chunks: Iterable<string>, options: Wri
     throw e;
   }
   closeSync(fd);
-  renameSync(tmp, path);
+  try {
+    renameSync(tmp, path);
+  } catch (e) {
+    rmSync(tmp, { force: true });
+    throw e;
+  }
+}
+
+/** After this long a busy marker is taken to be left over from a run that died (ms). */
+export const BUSY_STALE_MS = 10 * 60 * 1000;
+
+/** True when `pid` names a live process on this machine. */
+function isAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === "EPERM";
+  }
+}
+
+/**
+ * Run `fn` while holding `<file>.busy`, a marker created exclusively (flag "wx") so that two
+ * sidcarve runs never work on one lock file at the same time; the marker is removed afterwards.
+ * A marker left by a run that died (its process is gone, or it is older than BUSY_STALE_MS) is
+ * taken over; a live one is a UsageError. The marker holds "pid host" for that check.
+ */
+export function withBusyMarker<T>(file: string, fn: () => T): T {
+  const marker = `${file}.busy`;
+  const mine = `${process.pid} ${hostname()}\n`;
+  mkdirSync(dirname(marker), { recursive: true });
+  for (let attempt = 0; ; attempt++) {
+    try {
+      const fd = openSync(marker, "wx", 0o644);
+      try {
+        writeSync(fd, mine);
+      } finally {
+        closeSync(fd);
+      }
+      break;
+    } catch (e) {
+      if ((e as NodeJS.ErrnoException).code !== "EEXIST") throw e;
+      let holder = "";
+      let age = 0;
+      try {
+        holder = readFileSync(marker, "utf8");
+        age = Date.now() - statSync(marker).mtimeMs;
+      } catch {
+        continue; // it went away between open and read: try again
+      }
+      const [pid, host] = holder.trim().split(" ");
+      const dead = host === hostname() && /^\d+$/.test(pid ?? "") && !isAlive(Number(pid));
+      if (attempt < 3 && (dead || age > BUSY_STALE_MS)) {
+        rmSync(marker, { force: true });
+        continue;
+      }
+      throw new UsageError(
+        `${file}: the lock is in use by another sidcarve run (${marker} was made by process ${pid ?? "?"}${host ? ` on ${host}` : ""}); nothing was written, run again when it has finished (delete ${marker} if no run is active)`,
+      );
+    }
+  }
+  try {
+    return fn();
+  } finally {
+    try {
+      if (readFileSync(marker, "utf8") === mine) rmSync(marker, { force: true });
+    } catch {
+      // already gone
+    }
+  }
 }

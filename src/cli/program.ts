@@ -6,6 +6,7 @@ import { Command, Option } from "commander";
 import type { Io } from "./context.js";
 import { runAllocate } from "./commands/allocate.js";
 import { runDecode } from "./commands/decode.js";
+import { runDiff } from "./commands/diff.js";
 import { runEmit } from "./commands/emit.js";
 import { runLint } from "./commands/lint.js";
 import { runRelease } from "./commands/release.js";
@@ -80,6 +81,17 @@ export function buildProgram(io: Io): Command & { exitCode?: number } {
     .option("--all", "release every retired value")
     .option("--lock <file>", "lock file")
     .action((plan: string, names: string[], flags) => done(runRelease(plan, names, flags, io)));
+
+  program
+    .command("diff")
+    .description("show what moves between two SID tables (plans with their locks, or CSV/JSON tables) before rollout")
+    .argument("<old>", "the table in use: a plan (YAML/JSON) or a SID table (.csv, or .json in the sid-table format)")
+    .argument("<new>", "the proposed table, in any of the same forms")
+    .option("--old-lock <file>", "lock file of the old plan (default: <plan>.lock.json beside it)")
+    .option("--new-lock <file>", "lock file of the new plan (default: <plan>.lock.json beside it)")
+    .addOption(new Option("--format <format>", "output format").choices(["text", "json"]).default("text"))
+    .option("--accept-disruption", "exit 0 even when SIDs or locators are removed, renumbered or changed (the report is the same)")
+    .action((oldInput: string, newInput: string, flags) => done(runDiff(oldInput, newInput, flags, io)));
 
   return program;
 }

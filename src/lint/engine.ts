@@ -1,11 +1,55 @@
 /**
  * The lint engine: prepares sorted views of the input once, runs every rule that is switched on,
  * applies configured severities and waivers, and returns the findings sorted.
+ *
+ * The views are made lazily, when the first rule asks for them: `ctx.packed` (the SID table in
+ * columns with its sorted orders) and the object views `ctx.sids` / `ctx.locators`, which are
+ * materialised from the packed orders. A rule that touches none of them costs nothing.
  */
+import type { Plan, Severity } from "../plan/model.js";
 import type { SourceLocation } from "../plan/diagnostic.js";
-import type { Severity } from "../plan/model.js";
+import { type PackedReadResult, type PackedSidTable, locatorOrder, packTable, sidOrder } from "../sid/packed.js";
+import type { SidTable } from "../sid/table.js";
 import type { Finding, FindingSeverity, LintInput, OwnedLocator, OwnedSid, Report, Rule, RuleContext } from "./types.js";
 import { SEVERITY_RANK } from "./types.js";
+
+/** The packed view every rule may use instead of the object views (same content, same order). */
+export interface PackedLintView {
+  /** The SIDs and locators in columns (see src/sid/packed.ts). */
+  readonly table: PackedSidTable;
+  /** SID indices in the order of `ctx.sids`: by address, then node name, then source order. */
+  readonly sidOrder: Int32Array;
+  /** Locator ids in the order of `ctx.locators`: by first address, length, node name, first appearance. */
+  readonly locatorOrder: Int32Array;
+}
+
+declare module "./types.js" {
+  interface LintInput {
+    /** The table in columns, when the input was read that way (readCsvPacked); `table` is then made from it on demand. */
+    readonly packed?: PackedSidTable;
+  }
+  interface RuleContext {
+    /** The packed view of the input (made on first use; shared by every rule of the run). */
+    readonly packed: PackedLintView;
+  }
+}
+
+/** Lint input for a table read by readCsvPacked; `table` (objects) is only made if a rule asks for it. */
+export function inputFromPacked(read: PackedReadResult, file: string, today: string, plan?: Plan): LintInput {
+  const packed = read.table;
+  return {
+    get table(): SidTable {
+      return packed.toTable();
+    },
+    file,
+    plan,
+    fromTable: true,
+    rowProblems: read.problems,
+    today,
+    lineOf: read.lineOf,
+    packed,
+  };
+}
 
 export interface LintResult {
   readonly findings: readonly Finding[];
@@ -20,12 +64,20 @@ export interface LintOptions {
   readonly severity?: Readonly<Record<string, Severity>>;
   /** Run only these rules. */
   readonly only?: readonly string[];
+  /**
+   * Called after each rule with its time in milliseconds (for the benchmark). The one-off cost
+   * of the shared views is reported separately, under the id "(views)".
+   */
+  readonly onRuleTimed?: (ruleId: string, ms: number) => void;
 }
 
 /** Compare two bigints for sorting. */
 const cmpBig = (a: bigint, b: bigint) => (a < b ? -1 : a > b ? 1 : 0);
 
-/** Sorted views shared by all rules (built once per run: n log n). */
+/**
+ * Sorted views shared by all rules: the readable reference for the packed orders the engine uses
+ * (tests compare them). Comparator sorts over objects; n log n bigint comparisons.
+ */
 export function prepare(input: LintInput): { locators: OwnedLocator[]; sids: OwnedSid[] } {
   const locators: OwnedLocator[] = [];
   const sids: OwnedSid[] = [];
@@ -38,20 +90,93 @@ export function prepare(input: LintInput): { locators: OwnedLocator[]; sids: Own
   return { locators, sids };
 }
 
+/**
+ * The shared views of one run, each made on first use. `viewMs` accumulates the time spent making
+ * them (so per-rule timing can leave it out).
+ */
+export class LintViews {
+  private packedView: PackedLintView | undefined;
+  private sidList: OwnedSid[] | undefined;
+  private locatorList: OwnedLocator[] | undefined;
+  viewMs = 0;
+
+  constructor(private readonly input: LintInput) {}
+
+  private timed<T>(make: () => T): T {
+    const t0 = performance.now();
+    try {
+      return make();
+    } finally {
+      this.viewMs += performance.now() - t0;
+    }
+  }
+
+  get packed(): PackedLintView {
+    if (!this.packedView) {
+      this.packedView = this.timed(() => {
+        const table = this.input.packed ?? packTable(this.input.table);
+        return { table, sidOrder: sidOrder(table), locatorOrder: locatorOrder(table) };
+      });
+    }
+    return this.packedView;
+  }
+
+  /** All SIDs sorted by address then node (the order of `prepare`). */
+  get sids(): OwnedSid[] {
+    if (!this.sidList) {
+      const v = this.packed;
+      this.sidList = this.timed(() => {
+        const t = v.table;
+        const order = v.sidOrder;
+        const out = new Array<OwnedSid>(order.length);
+        for (let k = 0; k < order.length; k++) {
+          const i = order[k]!;
+          out[k] = { node: t.nodeNames[t.node[i]!]!, entry: t.entry(i) };
+        }
+        return out;
+      });
+    }
+    return this.sidList;
+  }
+
+  /** All locators sorted by first address, length, node (the order of `prepare`). */
+  get locators(): OwnedLocator[] {
+    if (!this.locatorList) {
+      const v = this.packed;
+      this.locatorList = this.timed(() => {
+        const t = v.table;
+        return Array.from(v.locatorOrder, (id) => ({ node: t.nodeNames[t.locNode[id]!]!, entry: t.locatorEntry(id) }));
+      });
+    }
+    return this.locatorList;
+  }
+}
+
 /** Run the rules over the input. A rule that throws is a programmer error and is re-thrown with its id. */
 export function runLint(input: LintInput, rules: readonly Rule[], options: LintOptions = {}): LintResult {
-  const { locators, sids } = prepare(input);
+  const views = new LintViews(input);
   const planSeverity = input.plan?.lint.severity ?? {};
   const nodeIndex = new Map(input.plan?.nodes.map((n) => [n.name, n.index]) ?? []);
-  const firstRow = new Map<string, number>();
-  for (const n of input.table.nodes) {
-    const r = n.sids.find((s) => s.row !== undefined)?.row;
-    if (r !== undefined) firstRow.set(n.node, r);
-  }
+  // first table row of each node, for locating node findings in a table (made on first use)
+  let firstRowMap: Map<string, number> | undefined;
+  const firstRow = (): Map<string, number> => {
+    if (firstRowMap) return firstRowMap;
+    firstRowMap = new Map();
+    const p = input.packed;
+    if (p) {
+      for (let i = p.count - 1; i >= 0; i--) if (p.row[i]! > 0) firstRowMap.set(p.nodeNames[p.node[i]!]!, p.row[i]!);
+    } else {
+      for (const n of input.table.nodes) {
+        const r = n.sids.find((s) => s.row !== undefined)?.row;
+        if (r !== undefined) firstRowMap.set(n.node, r);
+      }
+    }
+    return firstRowMap;
+  };
   const locatePlan = (path: readonly (string | number)[]): SourceLocation => (input.plan ? input.plan.locate(path) : { file: input.file });
   const locateNode = (node: string): SourceLocation => {
     if (input.fromTable) {
-      const row = firstRow.get(node);
+      const row = firstRow().get(node);
       return row !== undefined ? { file: input.file, row, line: input.lineOf?.(row), field: "node" } : { file: input.file };
     }
     const i = nodeIndex.get(node);
@@ -67,20 +192,28 @@ export function runLint(input: LintInput, rules: readonly Rule[], options: LintO
     const id = rule.meta.id;
     if (options.only && !options.only.includes(id)) continue;
     if (rule.meta.needs === "plan" && !input.plan) continue;
-    const sev = options.severity?.[id] ?? planSeverity[id] ?? rule.meta.severity;
+    const configured = options.severity?.[id] ?? planSeverity[id];
+    const sev = configured ?? rule.meta.severity;
     if (sev === "off") continue;
     rulesRun.push(id);
     const ctx: RuleContext = {
       input,
-      locators,
-      sids,
+      get locators() {
+        return views.locators;
+      },
+      get sids() {
+        return views.sids;
+      },
+      get packed() {
+        return views.packed;
+      },
       locateNode,
       locateSid,
       locatePlan,
       report(r: Report) {
         findings.push({
           rule: id,
-          severity: sev,
+          severity: configured === undefined && r.severity ? r.severity : sev,
           message: r.message,
           location: r.location ?? { file: input.file },
           objects: [...r.objects],
@@ -89,10 +222,17 @@ export function runLint(input: LintInput, rules: readonly Rule[], options: LintO
         });
       },
     };
+    const v0 = views.viewMs;
+    const t0 = options.onRuleTimed ? performance.now() : 0;
     try {
       rule.check(ctx);
     } catch (e) {
       throw new Error(`lint rule ${id} failed: ${(e as Error)?.stack ?? String(e)}`);
+    }
+    if (options.onRuleTimed) {
+      const viewPart = views.viewMs - v0;
+      options.onRuleTimed(id, performance.now() - t0 - viewPart);
+      if (viewPart > 0) options.onRuleTimed("(views)", viewPart);
     }
   }
 

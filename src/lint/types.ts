@@ -46,6 +46,11 @@ export interface Report {
   readonly objects: readonly string[];
   readonly hint?: string;
   readonly data?: Readonly<Record<string, string | number>>;
+  /**
+   * Raise or lower this finding's severity (e.g. documentation space in a production plan).
+   * Applies only when neither the plan nor the caller configured the rule's severity.
+   */
+  readonly severity?: FindingSeverity;
 }
 
 /** One locator with its owner, as rules see it. */

@@ -36,17 +36,10 @@ export function decodeUtf8(bytes: Uint8Array, file: string): { ok: true; text: s
     if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
     return { ok: true, text };
   } catch {
-    let offset = 0;
-    // find the first bad byte for the message
-    for (; offset < bytes.length; offset++) {
-      try {
-        new TextDecoder("utf-8", { fatal: true }).decode(bytes.subarray(0, offset + 1), { stream: true });
-      } catch {
-        break;
-      }
-    }
-    const before = new TextDecoder().decode(bytes.subarray(0, offset));
-    const line = before.split("\n").length;
+    // one linear pass for the message (decoding ever longer prefixes would be quadratic)
+    const offset = Math.max(0, firstInvalidUtf8(bytes));
+    let line = 1;
+    for (let i = 0; i < offset; i++) if (bytes[i] === 0x0a) line++;
     return {
       ok: false,
       diagnostics: [
@@ -58,6 +51,40 @@ export function decodeUtf8(bytes: Uint8Array, file: string): { ok: true; text: s
       ],
     };
   }
+}
+
+/**
+ * Offset of the first byte that starts an ill-formed UTF-8 sequence (RFC 3629 §4: no overlong
+ * forms, no surrogates, nothing above U+10FFFF, no sequence cut short), or -1 when all is well.
+ */
+export function firstInvalidUtf8(b: Uint8Array): number {
+  const n = b.length;
+  let i = 0;
+  while (i < n) {
+    const c = b[i]!;
+    if (c < 0x80) {
+      i++;
+      continue;
+    }
+    // RFC 3629 §4: the allowed range of the second byte depends on the first
+    let need: number;
+    let lo = 0x80;
+    let hi = 0xbf;
+    if (c >= 0xc2 && c <= 0xdf) need = 1;
+    else if (c === 0xe0) (need = 2), (lo = 0xa0);
+    else if ((c >= 0xe1 && c <= 0xec) || c === 0xee || c === 0xef) need = 2;
+    else if (c === 0xed) (need = 2), (hi = 0x9f);
+    else if (c === 0xf0) (need = 3), (lo = 0x90);
+    else if (c >= 0xf1 && c <= 0xf3) need = 3;
+    else if (c === 0xf4) (need = 3), (hi = 0x8f);
+    else return i;
+    for (let k = 1; k <= need; k++) {
+      const x = b[i + k];
+      if (x === undefined || x < (k === 1 ? lo : 0x80) || x > (k === 1 ? hi : 0xbf)) return i;
+    }
+    i += need + 1;
+  }
+  return -1;
 }
 
 /** Parse YAML or JSON text, keeping positions. Syntax errors, duplicate keys and alias bombs become diagnostics. */
@@ -85,14 +112,24 @@ export function parseSource(text: string, file: string): SourceResult {
     const p = lineCounter.linePos(offset);
     return { line: p.line, column: p.col };
   };
+  if (doc.errors.length === 0 && doc.contents === null) {
+    return { ok: false, diagnostics: [{ code: "input/empty", message: "the file holds only comments or blank lines; a plan needs at least sidcarve, plan, blocks, levels and nodes", location: { file, line: 1, column: 1 } }] };
+  }
   if (doc.errors.length > 0) {
+    // A syntax error sets off more errors after it; only the first is worth reading. Duplicate
+    // keys are independent of each other, so each is reported.
+    const syntax = doc.errors.filter((err) => err.code !== "DUPLICATE_KEY");
+    const shown = syntax.length > 0 ? syntax.slice(0, 1) : doc.errors.slice(0, 20);
     return {
       ok: false,
-      diagnostics: doc.errors.slice(0, 20).map((err) => ({
-        code: err.code === "DUPLICATE_KEY" ? "yaml/duplicate-key" : "yaml/syntax",
-        message: firstLine(err.message),
-        location: { file, ...pos(err.pos[0]) },
-      })),
+      diagnostics: shown.map((err) => {
+        const location = { file, ...pos(err.pos[0]) };
+        if (isStackOverflow(err.message)) return tooDeep(location);
+        if (err.code === "MULTIPLE_DOCS") return { code: "yaml/syntax", message: "the file holds more than one YAML document (a second '---' line); a plan is a single document", location };
+        if (err.code !== "DUPLICATE_KEY") return { code: "yaml/syntax", message: firstLine(err.message), location };
+        const key = /^("(?:[^"\\\n]|\\.)*"|'[^'\n]*'|[^:,{}\[\]\n]*)/.exec(text.slice(err.pos[0], err.pos[0] + 200))?.[1]?.trim().replace(/^["']|["']$/g, "") ?? "";
+        return { code: "yaml/duplicate-key", message: `the key ${quote(key)} appears twice in one mapping; keep only one of them`, location };
+      }),
     };
   }
   let data: unknown;
@@ -101,6 +138,7 @@ export function parseSource(text: string, file: string): SourceResult {
     data = doc.toJS({ maxAliasCount: 1000 });
   } catch (e) {
     const msg = (e as Error).message || String(e);
+    if (isStackOverflow(msg)) return { ok: false, diagnostics: [tooDeep({ file, line: 1, column: 1 })] };
     const bomb = /alias/i.test(msg);
     return {
       ok: false,
@@ -140,6 +178,15 @@ export function parseSource(text: string, file: string): SourceResult {
   return { ok: true, data, locate };
 }
 
+/** The JavaScript engine ran out of stack: the only way YAML nesting shows up before depthOf can count it. */
+function isStackOverflow(message: string): boolean {
+  return /maximum call stack size exceeded/i.test(message);
+}
+
+function tooDeep(location: SourceLocation): Diagnostic {
+  return { code: "input/too-deep", message: `the data is nested too deeply to read (hundreds of levels or more); at most ${MAX_DEPTH} are allowed`, location };
+}
+
 function firstLine(s: string): string {
   return s.split("\n")[0]!.trim();
 }
@@ -164,7 +211,8 @@ let planValidator: ValidateFunction | undefined;
 /** Validate plan data against the plan schema; each error is located and says what is allowed. */
 export function validatePlanData(data: unknown, locate: Locator): Diagnostic[] {
   if (!planValidator) {
-    const ajv = new Ajv2020({ allErrors: true, strict: false });
+    // verbose: errors carry their schema, which the messages use to say what is allowed
+    const ajv = new Ajv2020({ allErrors: true, strict: false, verbose: true });
     planValidator = ajv.compile(PLAN_SCHEMA);
   }
   if (planValidator(data)) return [];
@@ -211,7 +259,8 @@ export function schemaDiagnostics(errors: readonly ErrorObject[], data: unknown,
       case "maximum":
       case "exclusiveMinimum":
       case "exclusiveMaximum":
-        message = `${quote(value)} is out of range for ${where}; it must be ${e.message}`;
+        // ajv's message reads "must be <= 64"; a YAML number too large for a double reads as Infinity.
+        message = `${typeof value === "number" && !Number.isFinite(value) ? "a number too large to hold" : quote(value)} is out of range for ${where}; it ${e.message}`;
         break;
       case "pattern":
         message = `${quote(value)} is not valid for ${where}; ${patternHint(where)}`;

@@ -256,6 +256,24 @@ export function sidKeyFromContext(behavior: string, flavors: readonly string[], 
   return `${algorithm}|${behavior}|${behavior === "End" ? flavors.filter((f) => f !== "NEXT-CSID" && f !== "REPLACE-CSID").join("+") : ""}|${ctx}`;
 }
 
+/** Text of any JSON value, without ever throwing (String() throws on {"toString": 1}, JSON.stringify on deep nesting). */
+function textOf(v: unknown): string {
+  if (typeof v === "string") return v;
+  try {
+    return JSON.stringify(v) ?? "";
+  } catch {
+    return "(a value nested too deeply to show)";
+  }
+}
+
+/** `obj[key]` when it is a list; absent is an empty list, anything else a problem and an empty list. */
+function listAt(obj: any, key: string, at: string, row: number, problems: TableProblem[]): any[] {
+  const v = obj?.[key];
+  if (Array.isArray(v)) return v;
+  if (v !== undefined && v !== null) problems.push({ row, field: `${at}.${key}`, message: `${key} must be a list`, value: textOf(v).slice(0, 80) });
+  return [];
+}
+
 /** Read a JSON SID table (sidcarve/sid-table/v1). Bad entries are problems numbered by their place in the file. */
 export function readJsonTable(text: string): ReadTableResult {
   const problems: TableProblem[] = [];
@@ -266,7 +284,7 @@ export function readJsonTable(text: string): ReadTableResult {
     return { table: { plan: "", nodes: [] }, problems: [{ row: 0, field: "", message: `not valid JSON: ${(e as Error).message}`, value: "" }], unreadable: true };
   }
   if (data === null || typeof data !== "object" || data.schema !== "sidcarve/sid-table/v1" || !Array.isArray(data.nodes)) {
-    return { table: { plan: "", nodes: [] }, problems: [{ row: 0, field: "schema", message: 'not a sidcarve SID table: expected "schema": "sidcarve/sid-table/v1" and a "nodes" list', value: String(data?.schema ?? "") }], unreadable: true };
+    return { table: { plan: "", nodes: [] }, problems: [{ row: 0, field: "schema", message: 'not a sidcarve SID table: expected "schema": "sidcarve/sid-table/v1" and a "nodes" list', value: textOf(data?.schema ?? "") }], unreadable: true };
   }
   const b: Builder = { nodes: new Map() };
   let row = 0;
@@ -278,20 +296,20 @@ export function readJsonTable(text: string): ReadTableResult {
     }
     const entry: { locators: Map<string, LocatorEntry>; sids: SidEntry[] } = b.nodes.get(node) ?? { locators: new Map(), sids: [] };
     b.nodes.set(node, entry);
-    for (const [li, l] of ((n.locators ?? []) as any[]).entries()) {
+    for (const [li, l] of listAt(n, "locators", `nodes[${ni}]`, row + 1, problems).entries()) {
       const r = typeof l?.prefix === "string" ? parsePrefixParts(l.prefix) : { ok: false as const, reason: "locator prefix is missing" };
       if (!r.ok) {
-        problems.push({ row: row + 1, field: `nodes[${ni}].locators[${li}].prefix`, message: r.reason, value: String(l?.prefix ?? "") });
+        problems.push({ row: row + 1, field: `nodes[${ni}].locators[${li}].prefix`, message: r.reason, value: textOf(l?.prefix ?? "") });
         continue;
       }
       const algorithm = Number.isInteger(l.algorithm) ? l.algorithm : 0;
       const prefix = new Prefix(r.value.addr, r.value.len);
-      entry.locators.set(`${algorithm}|${prefix.format()}`, { prefix, algorithm, block: l.block ?? "", anycast: l.anycast ?? "" });
+      entry.locators.set(`${algorithm}|${prefix.format()}`, { prefix, algorithm, block: typeof l.block === "string" ? l.block : "", anycast: typeof l.anycast === "string" ? l.anycast : "" });
     }
-    for (const [si, s] of ((n.sids ?? []) as any[]).entries()) {
+    for (const [si, s] of listAt(n, "sids", `nodes[${ni}]`, row + 1, problems).entries()) {
       row++;
       const at = `nodes[${ni}].sids[${si}]`;
-      const bad = (field: string, message: string, value: unknown) => problems.push({ row, field: `${at}.${field}`, message, value: String(value ?? "") });
+      const bad = (field: string, message: string, value: unknown) => problems.push({ row, field: `${at}.${field}`, message, value: textOf(value ?? "") });
       const a = typeof s?.sid === "string" ? parseAddr(s.sid) : { ok: false as const, reason: "sid is missing" };
       if (!a.ok) {
         bad("sid", a.reason, s?.sid);
@@ -319,13 +337,13 @@ export function readJsonTable(text: string): ReadTableResult {
       const st = s.structure;
       const structure = st && [st.block, st.node, st.function, st.argument].every((x: unknown) => Number.isInteger(x) && (x as number) >= 0 && (x as number) <= 128) ? { block: st.block, node: st.node, function: st.function, argument: st.argument } : undefined;
       if (st && !structure) {
-        bad("structure", "structure needs whole numbers 0..128 for block, node, function and argument", JSON.stringify(st));
+        bad("structure", "structure needs whole numbers 0..128 for block, node, function and argument", textOf(st));
         continue;
       }
-      const flavors = Array.isArray(s.flavors) ? s.flavors.map(String) : [];
+      const flavors = Array.isArray(s.flavors) ? s.flavors.map(textOf) : [];
       const algorithm = Number.isInteger(s.algorithm) ? s.algorithm : 0;
       const context: Record<string, string> = {};
-      if (s.context && typeof s.context === "object") for (const [k, v] of Object.entries(s.context)) context[k] = String(v);
+      if (s.context && typeof s.context === "object") for (const [k, v] of Object.entries(s.context)) context[k] = textOf(v);
       const codepoint = Number.isInteger(s.codepoint) ? s.codepoint : undefined;
       const sid: SidEntry = { sid: a.value, behavior: s.behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key: sidKeyFromContext(s.behavior, flavors, algorithm, context), row };
       entry.sids.push(sid);

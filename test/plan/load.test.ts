@@ -92,8 +92,8 @@ describe("block prefixes", () => {
     expect(d.location.line).toBe(7);
   });
 
-  it("reports host bits in the RFC 5952 §11.8-style example 2001:0DB8::CD30/60", () => {
-    // 2001:db8::cd30 has bits after /60 set: it parses, but it is not the intended prefix.
+  it("reports host bits in 2001:0DB8::CD30/60", () => {
+    // RFC 4291 §2.3 lists 2001:0DB8::CD30/60 as not a legal form of 2001:db8:0:cd30::/60.
     const text = plan('  - name: b\n    prefix: "2001:0DB8::CD30/60"\n    structure: { node: 16, function: 16, argument: 0 }');
     expect(only(diagnosticsOf(text), "blocks.0.prefix").code).toBe("plan/host-bits");
   });

@@ -2,7 +2,8 @@
 import { serializeLock } from "../../alloc/lock.js";
 import { allocationSummary } from "../../emit/summary.js";
 import type { Io } from "../context.js";
-import { UsageError, readIfExists, writeAtomic } from "../io.js";
+import type { Plan } from "../../plan/model.js";
+import { UsageError, readIfExists, withBusyMarker, writeAtomic } from "../io.js";
 import { allocateOrFail, loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
 
 export interface AllocateFlags {
@@ -14,6 +15,13 @@ export interface AllocateFlags {
 export function runAllocate(planFile: string, flags: AllocateFlags, io: Io): number {
   const plan = loadPlanFile(planFile);
   const lockFile = lockPathFor(planFile, flags.lock);
+  if (flags.dryRun) return allocateHolding(plan, lockFile, flags, io);
+  // Hold <lock>.busy from reading the lock to writing it: a second run at the same time is
+  // refused up front instead of overwriting the first run's values.
+  return withBusyMarker(lockFile, () => allocateHolding(plan, lockFile, flags, io));
+}
+
+function allocateHolding(plan: Plan, lockFile: string, flags: AllocateFlags, io: Io): number {
   const { lock, text } = loadLock(plan, lockFile);
   const a = allocateOrFail(plan, lock, { allowRenumber: flags.allowRenumber === true });
   const newText = serializeLock(a.lock);

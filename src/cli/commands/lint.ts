@@ -1,13 +1,15 @@
 /** `sidcarve lint INPUT [--plan PLAN]`: lint a plan's allocation or a SID table from an inventory. */
+import { isUtf8 } from "node:buffer";
 import { extname } from "node:path";
 import { lintJson, lintSarif, lintText } from "../../emit/lint-report.js";
-import { type LintResult, failExitCode } from "../../lint/engine.js";
+import { type LintResult, failExitCode, inputFromPacked, runLint as runRules } from "../../lint/engine.js";
 import { isoDay } from "../../lint/input.js";
 import { lintAllocation, lintTable } from "../../lint/lint.js";
 import { ALL_RULES } from "../../lint/rules/index.js";
 import type { FindingSeverity } from "../../lint/types.js";
 import { decodeUtf8 } from "../../plan/source.js";
-import { readCsvTable, readJsonTable } from "../../sid/table-read.js";
+import { readCsvPacked } from "../../sid/packed.js";
+import { readJsonTable } from "../../sid/table-read.js";
 import type { Io } from "../context.js";
 import { UsageError, readInput, writeAtomic } from "../io.js";
 import { allocateOrFail, loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
@@ -43,10 +45,23 @@ export function runLint(input: string, flags: LintFlags, io: Io): number {
     const plan = loadPlanFile(input);
     const { lock } = loadLock(plan, lockPathFor(input, flags.lock));
     result = lintAllocation(allocateOrFail(plan, lock, {}), today);
+  } else if (kind === "csv") {
+    // CSV tables are read straight from the bytes into columns (same result as readCsvTable on
+    // the decoded text); decodeUtf8 is only needed for the message when the bytes are not UTF-8.
+    if (!isUtf8(bytes)) {
+      const d = decodeUtf8(bytes, input);
+      throw new UsageError(`${input}: cannot be read`, d.ok ? [] : d.diagnostics);
+    }
+    const read = readCsvPacked(bytes);
+    if (read.unreadable) {
+      throw new UsageError(`${input}: not a SID table: ${read.problems.map((p) => p.message).join("; ")}`);
+    }
+    const plan = flags.plan ? loadPlanFile(flags.plan) : undefined;
+    result = runRules(inputFromPacked(read, input, today, plan), ALL_RULES);
   } else {
     const d = decodeUtf8(bytes, input);
     if (!d.ok) throw new UsageError(`${input}: cannot be read`, d.diagnostics);
-    const read = kind === "csv" ? readCsvTable(d.text) : readJsonTable(d.text);
+    const read = readJsonTable(d.text);
     if (read.unreadable) {
       throw new UsageError(`${input}: not a SID table: ${read.problems.map((p) => p.message).join("; ")}`);
     }

@@ -1,0 +1,127 @@
+/**
+ * Room to grow: a level, a function pool, or the global / local C-SID pool (GIB / LIB) of a
+ * compressed block filled above the plan's capacity threshold (80 % unless lint.capacity-threshold
+ * says otherwise).
+ */
+import { rangeSize } from "../../plan/normalize.js";
+import { getField } from "../../net/uint128.js";
+import type { SourceLocation } from "../../plan/diagnostic.js";
+import type { PoolKind } from "../../plan/model.js";
+import type { Rule } from "../types.js";
+import { PrefixIndex } from "./locator-outside-block.js";
+
+/** Share of a capacity, for messages: "13 of 15 (87 %)". */
+const share = (used: bigint, cap: bigint) => `${used} of ${cap} (${cap > 0n ? Math.floor(Number((used * 1000n) / cap)) / 10 : 100} %)`;
+
+/** A bigint as data: a number when it is exact, its decimal text otherwise. */
+const num = (v: bigint): number | string => (v <= BigInt(Number.MAX_SAFE_INTEGER) ? Number(v) : v.toString());
+
+export const capacity: Rule = {
+  meta: {
+    id: "capacity",
+    severity: "warning",
+    summary: "Leave growth room in every level, function pool and C-SID pool.",
+    rationale:
+      "A full level means the next site or router needs a renumbering of its neighbours; a full pool means the next adjacency or VRF has no function value. RFC 5375 advises keeping a growth zone per delegation; the threshold (80 % by default) is our own choice, not a standard.",
+    source: "common practice; RFC 5375 §2.4 (growth room)",
+    needs: "plan",
+  },
+  check(ctx) {
+    const plan = ctx.input.plan!;
+    const threshold = plan.lint.capacityThreshold;
+    // used / capacity > threshold, in exact integers (threshold to 1e-6).
+    const over = (used: bigint, cap: bigint) => cap <= 0n ? used > 0n : used * 1_000_000n > cap * BigInt(Math.round(threshold * 1_000_000));
+    const pct = `${Math.round(threshold * 1000) / 10} %`;
+    const report = (kind: string, name: string, where: string, used: bigint, cap: bigint, location: SourceLocation, objects: string[], hint: string) =>
+      ctx.report({
+        message: `${kind} ${name} is ${share(used, cap)} full${where ? ` in ${where}` : ""}, above the ${pct} threshold`,
+        location,
+        objects,
+        hint,
+        data: { kind, name, where, used: num(used), capacity: num(cap), threshold },
+      });
+
+    const alloc = ctx.input.allocation;
+    if (alloc) {
+      // Levels: the allocator reports the fullest parent of each level.
+      for (const u of alloc.levelUsage) {
+        if (!over(u.used, u.capacity)) continue;
+        const i = plan.levels.findIndex((l) => l.name === u.name);
+        const where = u.fullest === "(top)" ? "" : (u.fullest ?? "");
+        report("level", u.name, where, u.used, u.capacity, ctx.locatePlan(["levels", i, "bits"]), [u.name, ...(where ? [where] : [])], "widen the level (more bits) before it fills, or split the fullest part");
+      }
+      // Function pools: "block/kind", the fullest locator of that block.
+      for (const u of alloc.poolUsage) {
+        if (!over(u.used, u.capacity)) continue;
+        const cut = u.name.lastIndexOf("/");
+        const blockName = u.name.slice(0, cut);
+        const kind = u.name.slice(cut + 1) as PoolKind;
+        const b = plan.blocks.find((x) => x.name === blockName);
+        const location = plan.functionPools[kind] ? ctx.locatePlan(["function-pools", kind]) : ctx.locatePlan(b ? ["blocks", b.index] : []);
+        const where = (u.fullest ?? "").replace(/^anycast:/, "anycast group ");
+        report("pool", u.name, where, u.used, u.capacity, location, [u.name, ...(where ? [u.fullest!] : [])], "widen the pool or the function field");
+      }
+    }
+
+    // GIB and LIB of compressed blocks (RFC 9800 §5), counted from the table so that an inventory
+    // linted with --plan is judged too. Two-C-SID layouts: one global C-SID per locator (anycast
+    // locators count once), local C-SIDs per locator; one-C-SID layouts: every SID's C-SID
+    // (node + function) is global.
+    const compressed = plan.blocks.filter((b) => b.layout.kind === "compressed");
+    if (compressed.length === 0) return;
+    const index = new PrefixIndex(compressed.map((b) => ({ prefix: b.prefix, value: b })));
+    const globals = new Map<string, Set<bigint>>();
+    const locals = new Map<string, Map<string, Set<bigint>>>(); // block -> "node|locator" -> local C-SIDs
+    for (const l of ctx.locators) {
+      const b = index.containing(l.entry.prefix)?.value;
+      if (!b || b.layout.kind !== "compressed" || !b.layout.twoCsid) continue;
+      const L = b.layout;
+      if (l.entry.prefix.len < L.blockBits + L.csidBits) continue;
+      const set = globals.get(b.name) ?? new Set<bigint>();
+      set.add(getField(l.entry.prefix.first, L.blockBits, L.csidBits));
+      globals.set(b.name, set);
+    }
+    for (const s of ctx.sids) {
+      const b = index.containingAddr(s.entry.sid)?.value;
+      if (!b || b.layout.kind !== "compressed") continue;
+      const L = b.layout;
+      if (L.twoCsid) {
+        if (L.blockBits + 2 * L.csidBits > 128) continue;
+        const local = getField(s.entry.sid, L.blockBits + L.csidBits, L.csidBits);
+        if (local === 0n) continue; // the node's own End SID: global C-SID alone (RFC 9800 §8)
+        const key = `${s.node}|${getField(s.entry.sid, L.blockBits, L.csidBits).toString(16)}`;
+        const perNode = locals.get(b.name) ?? new Map<string, Set<bigint>>();
+        const set = perNode.get(key) ?? new Set<bigint>();
+        set.add(local);
+        perNode.set(key, set);
+        locals.set(b.name, perNode);
+      } else {
+        const set = globals.get(b.name) ?? new Set<bigint>();
+        set.add(getField(s.entry.sid, L.blockBits, L.csidBits));
+        globals.set(b.name, set);
+      }
+    }
+    for (const b of compressed) {
+      if (b.layout.kind !== "compressed") continue;
+      const gib = rangeSize(b.layout.gib);
+      const used = BigInt(globals.get(b.name)?.size ?? 0);
+      if (gib > 0n && over(used, gib)) {
+        const what = b.layout.twoCsid ? "node C-SIDs" : "C-SIDs";
+        report("gib", b.name, "", used, gib, ctx.locatePlan(["blocks", b.index, "compression", "global-pool"]), [b.name], `widen the global pool (GIB) of block ${b.name}; ${what} come from it`);
+      }
+      const lib = rangeSize(b.layout.lib);
+      if (!b.layout.twoCsid || lib === 0n) continue;
+      let fullest = "";
+      let max = 0n;
+      for (const [key, set] of [...(locals.get(b.name) ?? new Map<string, Set<bigint>>()).entries()].sort(([a], [c]) => (a < c ? -1 : a > c ? 1 : 0))) {
+        if (BigInt(set.size) > max) {
+          max = BigInt(set.size);
+          fullest = key.slice(0, key.lastIndexOf("|"));
+        }
+      }
+      if (over(max, lib)) {
+        report("lib", b.name, fullest, max, lib, ctx.locatePlan(["blocks", b.index, "compression", "local-pool"]), [b.name, fullest], `widen the local pool (LIB) of block ${b.name}, or move services off ${fullest}`);
+      }
+    }
+  },
+};
