@@ -247,6 +247,14 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   let added = 0;
 
   const specsFor = buildSpecs(plan, nodeByName, diags);
+  // A service on an algorithm its node does not run would silently get no SID: refuse it.
+  for (const n of plan.nodes) {
+    for (const sp of specsFor.get(n.name) ?? []) {
+      if (sp.algorithm !== undefined && !n.algorithms.includes(sp.algorithm)) {
+        diags.push({ code: "alloc/algorithm", message: `${sp.behavior} ${quote(sp.key.split("|").slice(1).filter(Boolean).join(" "))} on ${n.name} uses algorithm ${sp.algorithm}, which ${n.name} does not run (it runs ${n.algorithms.join(", ")}); add the algorithm to the node or move the service`, location: plan.locate(sp.at) });
+      }
+    }
+  }
   if (diags.length > 0) return { ok: false, diagnostics: diags, moves };
 
   const allocOwner = (owner: string, place: string, algos: readonly number[], anycastName: string | undefined): { locators: LocatorEntry[]; sids: SidEntry[] } => {
@@ -300,8 +308,13 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
         if (s.noFunction) continue;
         const locked = lockedFns.get(key);
         if (s.pinned !== undefined) {
-          if (!fits(s.pinned) && s.pinned > fnMax) {
+          if (s.pinned > fnMax) {
             diags.push({ code: "alloc/pin", message: `pinned function ${hex(s.pinned)} does not fit the ${L.functionBits}-bit function field of block ${quote(b.name)}`, location: plan.locate(s.at) });
+            continue;
+          }
+          const pinProblem = pinnedFunctionProblem(plan, L, field, s.pinned);
+          if (pinProblem) {
+            diags.push({ code: "alloc/pin", message: `pinned function ${hex(s.pinned)} on ${owner}: ${pinProblem}`, location: plan.locate(s.at) });
             continue;
           }
           if (locked !== undefined && locked !== s.pinned) {
@@ -441,6 +454,21 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   };
 }
 
+/** Why a pinned function value cannot be used, or undefined (reserved values, C-SID 0, pools; RFC 9800 §5). */
+function pinnedFunctionProblem(plan: Plan, L: Layout, field: bigint, v: bigint): string | undefined {
+  if (inRanges(v, plan.reservedFunctions)) return "the value is in reserved-functions";
+  if (L.kind !== "compressed") return undefined;
+  if (L.twoCsid) {
+    if (v === 0n) return "a local C-SID of 0 is reserved (RFC 9800 §5)";
+    if (!inRanges(v, L.lib)) return "a local C-SID must come from the block's local-pool (LIB)";
+    return undefined;
+  }
+  const csid = (field << BigInt(L.functionBits)) | v;
+  if (csid === 0n) return "C-SID value 0 is reserved (RFC 9800 §5)";
+  if (!inRanges(csid, L.gib)) return `its C-SID 0x${csid.toString(16)} is outside the block's global-pool (GIB)`;
+  return undefined;
+}
+
 function dedupeRetired(list: readonly RetiredValue[]): RetiredValue[] {
   const seen = new Set<string>();
   const out: RetiredValue[] = [];
@@ -501,6 +529,11 @@ function assignLevel(
     if (retired.has(it.pinned) && it.locked !== it.pinned) {
       failed.add(it.id);
       diags.push({ code: "alloc/pin-retired", message: `${it.label} pins ${level.name} value ${hexv(it.pinned)}, which is retired (it belonged to an item removed from the plan); release it first or pick another`, location: locate(it.at) });
+      continue;
+    }
+    if (isReserved(it.pinned) || !fits(it.id, it.pinned)) {
+      failed.add(it.id);
+      diags.push({ code: "alloc/pin", message: `${it.label} pins ${level.name} value ${hexv(it.pinned)}, which is ${isReserved(it.pinned) ? `reserved at level ${quote(level.name)}` : "not usable: the node C-SID it makes would be 0 or outside the block's global-pool (GIB), RFC 9800 §5"}; pick another value`, location: locate(it.at) });
       continue;
     }
     out.set(it.id, it.pinned);

@@ -66,6 +66,28 @@ export interface WriteOptions {
 }
 
 /**
+ * Refuse (UsageError) when any of `paths` is a folder or another non-file, or a file sidcarve did
+ * not write (unless `force`). A command that writes several files checks them all first, so that
+ * a refusal never leaves half of a set written.
+ */
+export function checkWritable(paths: readonly string[], options: WriteOptions = {}): void {
+  for (const path of paths) {
+    let st;
+    try {
+      st = statSync(path);
+    } catch {
+      continue; // not there yet
+    }
+    // A folder (or device) where the file should go: renaming over it would fail after the
+    // temporary file was written, so refuse before writing anything.
+    if (!st.isFile()) throw new UsageError(`${path}: is ${st.isDirectory() ? "a folder" : "not a regular file"}; refusing to write a table there`);
+    if (!options.force && !isOurFile(path)) {
+      throw new UsageError(`${path}: exists and was not written by sidcarve; refusing to overwrite it (use --force to allow)`);
+    }
+  }
+}
+
+/**
  * Write `chunks` to `path` atomically: into a temporary file in the same folder, flushed, then
  * renamed over the target. An interrupted run leaves the old file untouched (and at worst a
  * stray temporary file whose name starts with '.' and holds '.tmp-').
@@ -73,20 +95,7 @@ export interface WriteOptions {
 export function writeAtomic(path: string, chunks: Iterable<string>, options: WriteOptions = {}): void {
   const dir = dirname(path);
   mkdirSync(dir, { recursive: true });
-  let exists = false;
-  let st;
-  try {
-    st = statSync(path);
-  } catch {
-    st = undefined;
-  }
-  // A folder (or device) where the file should go: renaming over it would fail after the
-  // temporary file was written, so refuse before writing anything.
-  if (st && !st.isFile()) throw new UsageError(`${path}: is ${st.isDirectory() ? "a folder" : "not a regular file"}; refusing to write a table there`);
-  exists = st !== undefined;
-  if (exists && !options.force && !isOurFile(path)) {
-    throw new UsageError(`${path}: exists and was not written by sidcarve; refusing to overwrite it (use --force to allow)`);
-  }
+  checkWritable([path], options);
   const tmp = join(dir, `.${basename(path)}.tmp-${process.pid}-${Math.random().toString(36).slice(2, 10)}`);
   const fd = openSync(tmp, "w", 0o644);
   try {

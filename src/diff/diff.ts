@@ -236,7 +236,8 @@ function diffSids(node: string, old: readonly SidEntry[], next: readonly SidEntr
 /**
  * Compare two SID tables node by node. Nodes are matched by name; a node only in one table has
  * all its locators and SIDs added or removed. Identical tables give no nodes and `disruptive`
- * false. Duplicate rows (the same binding twice on a node) are matched one by one.
+ * false. Duplicate rows (the same binding twice on a node) are matched one by one. Locators are
+ * compared only where both sides list them (a CSV table without a locator column lists none).
  */
 export function diffTables(old: SidTable, next: SidTable): TableDiff {
   const oldNodes = new Map<string, NodeTable>(old.nodes.map((n) => [n.node, n]));

@@ -73,7 +73,8 @@ function locatorLine(c: LocatorChange): string {
 
 function sideText(label: string, s: DiffSide): string {
   const what = s.kind === "plan" ? `plan ${s.plan} with its lock` : `${s.kind === "csv" ? "CSV" : "JSON"} table${s.plan ? ` of plan ${s.plan}` : ""}`;
-  return `${label} ${s.file}: ${what}, ${s.nodes} nodes, ${s.sids} SIDs`;
+  const n = (count: number, noun: string) => `${count} ${noun}${count === 1 ? "" : "s"}`;
+  return `${label} ${s.file}: ${what}, ${n(s.nodes, "node")}, ${n(s.sids, "SID")}`;
 }
 
 /**

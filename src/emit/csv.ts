@@ -2,8 +2,9 @@
  * SID tables as CSV (RFC 4180): one row per SID, rows sorted, CRLF line ends, a leading
  * `#` comment line with the plan name and the caution.
  */
+import type { Prefix } from "../net/prefix.js";
 import { formatAddr } from "../net/text.js";
-import { type NodeTable, type SidEntry, type SidTable, formatContext } from "../sid/table.js";
+import { type NodeTable, type SidContext, type SidEntry, type SidTable, formatContext } from "../sid/table.js";
 import { CAUTION } from "./caution.js";
 import { csvCell } from "./names.js";
 
@@ -28,7 +29,10 @@ export function csvBanner(plan: string): string {
   return `# sidcarve SID table, plan ${plan.replace(/[\r\n]/g, " ")}. ${CAUTION}`;
 }
 
-/** One CSV row for a SID (no line end). */
+/**
+ * One CSV row for a SID (no line end): the readable form. csvChunks writes the same bytes with
+ * the cells that repeat (node, locator, flavours, context) formatted once per object.
+ */
 export function csvRow(node: string, s: SidEntry): string {
   return [
     node,
@@ -49,13 +53,95 @@ export function csvRow(node: string, s: SidEntry): string {
     .join(",");
 }
 
+/**
+ * Cells that many SIDs share, formatted once: locators and flavour lists are shared objects in an
+ * allocation (contexts mostly are not, so they are formatted each time, without a cache whose
+ * upkeep would cost more than it saves). Only the cells csvCell can change (node, behaviour,
+ * flavours, context) go through it; the others are numbers and addresses it leaves as they are.
+ */
+class RowCache {
+  private readonly locators = new WeakMap<Prefix, string>();
+  private readonly flavors = new WeakMap<readonly string[], string>();
+  private readonly texts = new Map<string, string>();
+
+  cell(v: string): string {
+    let c = this.texts.get(v);
+    if (c === undefined) {
+      c = csvCell(v);
+      if (this.texts.size < 4096) this.texts.set(v, c);
+    }
+    return c;
+  }
+
+  locator(p: Prefix | undefined): string {
+    if (!p) return "";
+    let t = this.locators.get(p);
+    if (t === undefined) {
+      t = csvCell(p.format());
+      this.locators.set(p, t);
+    }
+    return t;
+  }
+
+  /** csvCell(formatContext(c)), without formatContext's intermediate arrays. */
+  context(c: SidContext): string {
+    const keys = Object.keys(c);
+    if (keys.length === 0) return "";
+    keys.sort();
+    let t = `${keys[0]}=${c[keys[0]!]}`;
+    for (let i = 1; i < keys.length; i++) t += `;${keys[i]}=${c[keys[i]!]}`;
+    return csvCell(t);
+  }
+
+  flavorCell(f: readonly string[]): string {
+    let t = this.flavors.get(f);
+    if (t === undefined) {
+      t = csvCell(f.join("+"));
+      this.flavors.set(f, t);
+    }
+    return t;
+  }
+}
+
+/**
+ * The row of csvRow, built from cached cells; `nodeCell` is csvCell(node). Numbers that are not
+ * negative and addresses never start with a formula character or hold a quote, comma or line
+ * break, so csvCell would leave them unchanged.
+ */
+function fastRow(nodeCell: string, s: SidEntry, c: RowCache): string {
+  const st = s.structure;
+  return (
+    nodeCell +
+    "," +
+    (s.algorithm >= 0 ? s.algorithm : csvCell(String(s.algorithm))) +
+    "," +
+    c.locator(s.locator) +
+    "," +
+    formatAddr(s.sid) +
+    "," +
+    c.cell(s.behavior) +
+    "," +
+    c.flavorCell(s.flavors) +
+    "," +
+    (s.codepoint === undefined ? "" : s.codepoint >= 0 ? s.codepoint : csvCell(String(s.codepoint))) +
+    ",0x" +
+    s.function.toString(16) +
+    "," +
+    (st ? `${st.block},${st.node},${st.function},${st.argument}` : ",,,") +
+    "," +
+    c.context(s.context)
+  );
+}
+
 /** The whole table (or the given nodes) as CSV text, in pieces so that large tables can be streamed. */
 export function* csvChunks(plan: string, nodes: readonly NodeTable[]): Generator<string> {
   yield csvBanner(plan) + "\r\n";
   yield CSV_HEADER.join(",") + "\r\n";
+  const cache = new RowCache();
   for (const n of nodes) {
+    const nodeCell = csvCell(n.node);
     let buf = "";
-    for (const s of n.sids) buf += csvRow(n.node, s) + "\r\n";
+    for (const s of n.sids) buf += fastRow(nodeCell, s, cache) + "\r\n";
     if (buf) yield buf;
   }
 }

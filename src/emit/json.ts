@@ -40,9 +40,78 @@ export function* jsonChunks(t: SidTable, nodes: readonly NodeTable[] = t.nodes):
   yield `{\n  "schema": ${JSON.stringify(SID_TABLE_SCHEMA_ID)},\n  "plan": ${JSON.stringify(t.plan)},\n  "caution": ${JSON.stringify(CAUTION)},\n  "nodes": [`;
   let first = true;
   for (const n of nodes) {
-    const body = JSON.stringify(nodeJson(n), null, 2).replace(/\n/g, "\n    ");
-    yield (first ? "\n    " : ",\n    ") + body;
+    yield (first ? "\n    " : ",\n    ") + nodeText(n, "    ");
     first = false;
   }
   yield first ? "]\n}\n" : "\n  ]\n}\n";
+}
+
+// ---- JSON.stringify(nodeJson(n), null, 2) written directly, each line after the first indented by `pad`
+
+const str = (s: string) => JSON.stringify(s);
+const num = (n: number) => JSON.stringify(n);
+
+/** One node's entry as JSON.stringify(nodeJson(n), null, 2) would print it, lines after the first prefixed by `pad`. */
+function nodeText(n: NodeTable, pad: string): string {
+  const p1 = pad + "  ";
+  const p2 = p1 + "  ";
+  const p3 = p2 + "  ";
+  let out = `{\n${p1}"node": ${str(n.node)},\n${p1}"locators": `;
+  if (n.locators.length === 0) out += "[]";
+  else {
+    out += "[";
+    n.locators.forEach((l, i) => {
+      out += `${i ? "," : ""}\n${p2}{\n${p3}"prefix": ${str(l.prefix.format())},\n${p3}"algorithm": ${num(l.algorithm)},\n${p3}"block": ${str(l.block)},\n${p3}"anycast": ${l.anycast === "" ? "null" : str(l.anycast)}\n${p2}}`;
+    });
+    out += `\n${p1}]`;
+  }
+  out += `,\n${p1}"sids": `;
+  if (n.sids.length === 0) out += "[]";
+  else {
+    out += "[";
+    for (let i = 0; i < n.sids.length; i++) out += `${i ? "," : ""}\n${p2}${sidText(n.sids[i]!, p2)}`;
+    out += `\n${p1}]`;
+  }
+  return out + `\n${pad}}`;
+}
+
+/** Keys of a context in the order JSON.stringify prints the sorted object of sidJson; undefined when unusual. */
+function contextKeys(c: Readonly<Record<string, string>>): string[] | undefined {
+  const keys = Object.keys(c).sort();
+  for (const k of keys) {
+    // integer-like keys are printed first by JSON.stringify, and non-string values need its rules
+    if (typeof c[k] !== "string" || /^(0|[1-9][0-9]*)$/.test(k)) return undefined;
+  }
+  return keys;
+}
+
+/** One SID as JSON.stringify(sidJson(s), null, 2) prints it, lines after the first prefixed by `pad`. */
+function sidText(s: SidEntry, pad: string): string {
+  const ctxKeys = contextKeys(s.context);
+  if (ctxKeys === undefined || typeof s.behavior !== "string" || !s.flavors.every((f) => typeof f === "string")) {
+    return JSON.stringify(sidJson(s), null, 2).replace(/\n/g, "\n" + pad);
+  }
+  const p1 = pad + "  ";
+  const p2 = p1 + "  ";
+  const st = s.structure;
+  let flv: string;
+  if (s.flavors.length === 0) flv = "[]";
+  else {
+    flv = "[";
+    s.flavors.forEach((f, i) => (flv += `${i ? "," : ""}\n${p2}${str(f)}`));
+    flv += `\n${p1}]`;
+  }
+  let ctx: string;
+  if (ctxKeys.length === 0) ctx = "{}";
+  else {
+    ctx = "{";
+    ctxKeys.forEach((k, i) => (ctx += `${i ? "," : ""}\n${p2}${str(k)}: ${str(s.context[k]!)}`));
+    ctx += `\n${p1}}`;
+  }
+  return (
+    `{\n${p1}"sid": ${str(formatAddr(s.sid))},\n${p1}"behavior": ${str(s.behavior)},\n${p1}"flavors": ${flv},\n${p1}"codepoint": ${s.codepoint === undefined ? "null" : num(s.codepoint)},` +
+    `\n${p1}"algorithm": ${num(s.algorithm)},\n${p1}"locator": ${s.locator ? str(s.locator.format()) : "null"},\n${p1}"function": ${str("0x" + s.function.toString(16))},` +
+    `\n${p1}"structure": ${st ? `{\n${p2}"block": ${num(st.block)},\n${p2}"node": ${num(st.node)},\n${p2}"function": ${num(st.function)},\n${p2}"argument": ${num(st.argument)}\n${p1}}` : "null"},` +
+    `\n${p1}"context": ${ctx}\n${pad}}`
+  );
 }

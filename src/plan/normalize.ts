@@ -146,8 +146,13 @@ export function normalizePlan(raw: Raw, file: string, locate: Locator): { ok: tr
       if (csidBits !== 16 && csidBits !== 32) {
         err("plan/structure", [...at, "compression", "csid-bits"], `csid-bits ${csidBits} is not allowed; RFC 9800 defines C-SID lengths of 16 and 32 bits`);
       }
-      const nodeBits = (c["node-bits"] ?? csidBits) as number;
+      // REPLACE-CSID with 32-bit C-SIDs packs node and function into one C-SID (RFC 9800 §6.4:
+      // LNFL = 32); our own default split is 16 + 16. Everything else defaults to a whole node C-SID.
+      const nodeBits = (c["node-bits"] ?? (flavor === "REPLACE-CSID" && csidBits === 32 ? 16 : csidBits)) as number;
       const twoCsid = nodeBits === csidBits;
+      if (flavor === "REPLACE-CSID" && csidBits === 32 && twoCsid) {
+        err("plan/structure", [...at, "compression", "node-bits"], `with REPLACE-CSID and 32-bit C-SIDs, node and function share one C-SID (RFC 9800 §6.4): node-bits must be below 32, e.g. 16; got ${nodeBits}`);
+      }
       if (flavor === "NEXT-CSID" && !twoCsid) {
         err("plan/structure", [...at, "compression", "node-bits"], `with NEXT-CSID the node field is one whole C-SID: node-bits must equal csid-bits (${csidBits}), got ${nodeBits}`);
       }
@@ -155,9 +160,10 @@ export function normalizePlan(raw: Raw, file: string, locate: Locator): { ok: tr
         err("plan/structure", [...at, "compression", "node-bits"], `node-bits ${nodeBits} must be between 1 and csid-bits (${csidBits})`);
       }
       const functionBits = twoCsid ? csidBits : csidBits - nodeBits;
-      const used = blockBits + nodeBits + functionBits;
+      const argBits = (c.argument ?? 0) as number;
+      const used = blockBits + nodeBits + functionBits + argBits;
       if (used > 128) {
-        err("plan/structure", [...at, "compression"], `block /${blockBits} + node ${nodeBits} + function ${functionBits} = ${used} bits; at most 128 are allowed`);
+        err("plan/structure", [...at, "compression"], `block /${blockBits} + node ${nodeBits} + function ${functionBits}${argBits ? ` + argument ${argBits}` : ""} = ${used} bits; at most 128 are allowed (RFC 8986 §3.1)`);
       }
       if (flavor === "REPLACE-CSID") {
         const indexBits = Math.ceil(Math.log2(128 / csidBits));

@@ -262,6 +262,9 @@ export function schemaDiagnostics(errors: readonly ErrorObject[], data: unknown,
         // ajv's message reads "must be <= 64"; a YAML number too large for a double reads as Infinity.
         message = `${typeof value === "number" && !Number.isFinite(value) ? "a number too large to hold" : quote(value)} is out of range for ${where}; it ${e.message}`;
         break;
+      case "maxLength":
+        message = `${quote(value)} is too long for ${where} (${typeof value === "string" ? value.length : "?"} characters); at most ${(e.params as { limit: number }).limit} are allowed`;
+        break;
       case "pattern":
         message = `${quote(value)} is not valid for ${where}; ${patternHint(where)}`;
         break;

@@ -1005,15 +1005,13 @@ export function readCsvPacked(bytes: Uint8Array, plan = ""): PackedReadResult {
       }
     }
     // context (checked on bytes: ';' and '=' are ASCII, so this is parseContext's own test)
-    let cid: number;
-    if (get(COL_CTX)) cid = internCol(COL_CTX, ctxIds);
-    else cid = ctxIds.intern(valBuf, 0, 0);
+    if (!get(COL_CTX)) vs = ve = 0; // an absent column reads as ""
+    const cid = internCol(COL_CTX, ctxIds);
     if (cid === ctxValid.length) ctxValid.push(contextBytesValid(valBuf, vs, ve) ? 1 : 0);
     if (ctxValid[cid] === 0) return bad("context", ctxIds.text(cid), "context must be key=value pairs joined with ';'");
     // flavors
-    let fid: number;
-    if (get(COL_FLAV)) fid = internCol(COL_FLAV, flavorIds);
-    else fid = flavorIds.intern(valBuf, 0, 0);
+    if (!get(COL_FLAV)) vs = ve = 0;
+    const fid = internCol(COL_FLAV, flavorIds);
     if (fid === t.flavorSets.length) {
       const list = flavorIds
         .text(fid)

@@ -312,3 +312,34 @@ describe("services", () => {
     for (const x of s) expect(x.structure!.argument).toBe(x.behavior === "End.DT2M" ? 8 : 0);
   });
 });
+
+describe("refusals that keep a plan honest", () => {
+  const nextBlock = (extra: Record<string, unknown> = {}) => ({ name: "b", prefix: "5f00:20::/32", compression: { flavor: "next-csid", "csid-bits": 16, "global-pool": ["0x0100-0xbfff"], "local-pool": ["0xc000-0xfeff"], ...extra } });
+  const codes = (obj: Record<string, unknown>) => {
+    const r = allocate(planFrom(obj), undefined);
+    return r.ok ? [] : r.diagnostics.map((d) => d.code);
+  };
+  it("refuses a pinned local C-SID of 0 or outside the LIB (RFC 9800 §5)", () => {
+    for (const fn of [0, "0x0005"]) {
+      expect(codes({ sidcarve: 1, plan: "p", levels: [{ name: "router", bits: 16 }], blocks: [nextBlock()], nodes: [{ name: "a", value: "0x200" }, { name: "b", value: "0x201" }], links: [{ ends: [{ node: "a", function: fn }, "b"] }] })).toEqual(["alloc/pin"]);
+    }
+  });
+  it("refuses a pinned node value whose C-SID falls outside the GIB (RFC 9800 §5)", () => {
+    expect(codes({ sidcarve: 1, plan: "p", levels: [{ name: "router", bits: 16 }], blocks: [nextBlock()], nodes: [{ name: "a", value: "0xc001" }] })).toEqual(["alloc/pin"]);
+  });
+  it("refuses a VRF on an algorithm its PE does not run", () => {
+    const obj = basePlan({ algorithms: [{ id: 0 }, { id: 128 }], nodes: [{ name: "r1", place: "north/quay", algorithms: [0] }, { name: "r2", place: "north/quay", algorithms: [0] }, { name: "r3", place: "north/mill", algorithms: [0] }, { name: "r4", place: "south/dock", algorithms: [0] }], vrfs: [{ name: "fast", pes: ["r1"], algorithm: 128 }] });
+    expect(codes(obj)).toEqual(["alloc/algorithm"]);
+  });
+});
+
+describe("compressed layout defaults", () => {
+  it("REPLACE-CSID with 32-bit C-SIDs splits node and function 16 + 16 by default (RFC 9800 §6.4: LNFL 32)", () => {
+    const plan = planFrom({ sidcarve: 1, plan: "r", levels: [{ name: "router", bits: 16 }], blocks: [{ name: "b", prefix: "5f00:30::/32", compression: { flavor: "replace-csid", "csid-bits": 32, "global-pool": ["0x00010000-0xffffffff"] } }], "function-pools": { end: ["1-15"] }, nodes: [{ name: "a" }] });
+    const layout = plan.blocks[0]!.layout;
+    expect(layout.kind === "compressed" && [layout.nodeBits, layout.functionBits]).toEqual([16, 16]);
+  });
+  it("counts a NEXT-CSID block's argument bits in the 128-bit budget (RFC 8986 §3.1)", () => {
+    expect(() => planFrom({ sidcarve: 1, plan: "r", levels: [{ name: "router", bits: 16 }], blocks: [{ name: "b", prefix: "5f00:0:100::/96", compression: { flavor: "next-csid", "csid-bits": 16, argument: 16, "global-pool": ["1-0xbfff"], "local-pool": ["0xc000-0xffff"] } }], nodes: [{ name: "a" }] })).toThrow(/plan\/structure/);
+  });
+});

@@ -204,10 +204,13 @@ function buildModel(s: Spec): Model {
   const m: Model = { header, flex: flex !== "none", places: places.map((p) => p.path), anycastPlace, nodes, links: [], vrfs: [], wires: [], bridge: [], policies: [] };
   for (const [a, b, p] of s.links) addLink(m, pick(a), pick(b), PROTECTIONS[p]!);
   s.vrfs.forEach((v, i) => {
-    const pes = [...new Set(v.pes.map(pick))];
+    // a VRF carried over Flex-Algo 128 may only sit on PEs that run algorithm 128
+    const flexVrf = v.flex && m.flex && nodes.some((n) => !n.defaultOnly);
+    const candidates = flexVrf ? nodes.filter((n) => !n.defaultOnly) : nodes;
+    const pes = [...new Set(v.pes.map((x) => candidates[x % candidates.length]!.name))];
     const families = v.families === 1 ? ["ipv4"] : v.families === 2 ? ["ipv6"] : ["ipv4", "ipv6"];
     const ces = v.ces.map(([pe, v6], j) => ({ name: `ce${i}-${j}`, pe: pes[pe % pes.length]!, family: v6 ? "ipv6" : "ipv4" }));
-    m.vrfs.push({ name: `vrf${i}`, pes, families, mode: v.split ? "split" : "combined", algorithm: v.flex && m.flex ? 128 : 0, ces });
+    m.vrfs.push({ name: `vrf${i}`, pes, families, mode: v.split ? "split" : "combined", algorithm: flexVrf ? 128 : 0, ces });
   });
   s.wires.forEach(([a, b], i) => m.wires.push({ name: `wire${i}`, ends: [pick(a), pick(b)] }));
   m.bridge.push(...new Set(s.bridge.map(pick)));

@@ -6,7 +6,7 @@
  */
 import { createHash } from "node:crypto";
 import { existsSync, lstatSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, readlinkSync, rmSync, symlinkSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { hostname, tmpdir } from "node:os";
 import { join, relative } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { stringify } from "yaml";
@@ -141,6 +141,29 @@ describe("a damaged or foreign lock stops every command and nothing is written",
     expect(stackLines(r.stderr)).toEqual([]);
     expect(runCli(built.main, ["emit", s.plan, "--format", "csv", "--per-node", "--out", s.out], s.dir).code).toBe(2);
     expect(snapshot(s.dir)).toEqual(before);
+  });
+});
+
+describe("the busy marker of allocate", () => {
+  it("refuses while another live run holds <lock>.busy, and takes over the marker of a run that died", () => {
+    const s = setup();
+    const marker = `${s.lock}.busy`;
+    const text = readFileSync(s.plan, "utf8");
+    writeFileSync(s.plan, text.replace("nodes:\n", "nodes:\n  - name: r9\n    place: south/dock\n"));
+    // this test process is alive: its marker stands for a run that is still working
+    writeFileSync(marker, `${process.pid} ${hostname()}\n`);
+    const before = snapshot(s.dir);
+    const r = runCli(built.main, ["allocate", s.plan], s.dir);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/in use by another sidcarve run.*nothing was written/);
+    expect(r.stderr).toContain(marker);
+    expect(snapshot(s.dir)).toEqual(before);
+    // a process number that cannot be running (above PID_MAX_LIMIT, 2^22 on 64-bit Linux; value from memory): taken over
+    writeFileSync(marker, `${2 ** 22 + 1} ${hostname()}\n`);
+    const again = runCli(built.main, ["allocate", s.plan], s.dir);
+    expect(again.code, again.stderr).toBe(0);
+    expect(existsSync(marker)).toBe(false);
+    expect(readFileSync(s.lock, "utf8")).toContain('"r9"');
   });
 });
 

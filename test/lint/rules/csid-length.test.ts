@@ -49,12 +49,10 @@ describe(RULE, () => {
       const f = lintCsvWith(RULE, csv(row("a", "5f00:0:100:0:1::", "End", "REPLACE-CSID", "48/32/0/48"), row("a", "5f00:0:100:0:1:c000:0:1", "End.X", "REPLACE-CSID", "48/32/32/16")));
       expect(f.map((x) => [x.objects[1], x.data.csidLength, x.location.row])).toEqual([["5f00:0:100:0:1:c000:0:1", 64, 2]]);
     });
-    it("a REPLACE-CSID block of 32-bit C-SIDs with a whole C-SID of node bits: its local SIDs are 64 bits, one finding for the block", () => {
-      // node-bits defaults to csid-bits, which puts functions in a second 32-bit C-SID; RFC 9800 §6.4 reads no scheme from that.
-      const plan = compressed({ flavor: "replace-csid", "csid-bits": 32, "global-pool": ["0x00000001-0xbfffffff"], "local-pool": ["0xc0000000-0xffffffff"] }, wideLevels);
-      const f = lintPlanWith(RULE, plan);
-      expect(f.map((x) => [x.rule, x.objects[0], x.location.path, x.data.csidLength])).toEqual([[RULE, "c", ["blocks", 0, "compression"], 64]]);
-      expect(f[0]!.data.count).toBeGreaterThan(3);
+    it("a plan cannot even make REPLACE-CSID 32-bit C-SIDs with a whole C-SID of node bits (LNFL 64): the loader refuses it", () => {
+      // RFC 9800 §6.4 reads no compression scheme from node 32 + function 32.
+      const plan = compressed({ flavor: "replace-csid", "csid-bits": 32, "node-bits": 32, "global-pool": ["0x00000001-0xbfffffff"], "local-pool": ["0xc0000000-0xffffffff"] }, wideLevels);
+      expect(() => lintPlanWith(RULE, plan)).toThrow(/compression\.node-bits.*plan\/structure/);
     });
     it("one finding per node and structure", () => {
       const rows = [];

@@ -38,9 +38,8 @@ describe(RULE, () => {
       const f = lintCsvWith(RULE, t, nextPlan());
       expect(f.map((x) => [x.data.node, x.data.role, x.data.value, x.data.count, x.location.row])).toEqual([["a", "local", "0x5", 2, 1]]);
     });
-    it("a plan pinning an adjacency function outside the LIB: located at the node", () => {
-      const f = lintPlanWith(RULE, nextPlan({ links: [{ ends: [{ node: "r1", function: "0x0005" }, "r2"] }] }));
-      expect(f.map((x) => [x.data.node, x.data.role, x.data.value, x.location.path])).toEqual([["r1", "local", "0x5", ["nodes", 0]]]);
+    it("a plan pinning an adjacency function outside the LIB is refused by the allocator before any lint", () => {
+      expect(() => lintPlanWith(RULE, nextPlan({ links: [{ ends: [{ node: "r1", function: "0x0005" }, "r2"] }] }))).toThrow(/links\[0\]\.ends\[0\].*alloc\/pin/);
     });
     it("REPLACE-CSID one-C-SID layout: the whole 32-bit C-SID must be in the GIB (RFC 9800 §9.2)", () => {
       const t = csv(row("a", "5f00:0:100:1:1::", "End", "REPLACE-CSID", "48/16/16/48"), row("b", "5f00:0:100:c000:1::", "End", "REPLACE-CSID", "48/16/16/48"));

@@ -46,9 +46,8 @@ describe(RULE, () => {
         ["b", "local"],
       ]);
     });
-    it("a plan that pins an adjacency's function to 0 in a NEXT-CSID block: located at the node", () => {
-      const f = lintPlanWith(RULE, nextPlan({ links: [{ ends: [{ node: "r1", function: 0 }, "r2"] }] }));
-      expect(f.map((x) => [x.rule, x.data.node, x.data.role, x.location.path])).toEqual([[RULE, "r1", "local", ["nodes", 0]]]);
+    it("a plan that pins an adjacency's local C-SID to 0 is refused by the allocator (RFC 9800 §5)", () => {
+      expect(() => lintPlanWith(RULE, nextPlan({ links: [{ ends: [{ node: "r1", function: 0 }, "r2"] }] }))).toThrow(/links\[0\]\.ends\[0\].*alloc\/pin/);
     });
     it("one finding per node and role", () => {
       const f = lintCsvWith(RULE, csv(row("z", "5f00:0:100::", "End", "NEXT-CSID", "48/16/0/64"), row("z", "5f00:0:100:0:c000::", "End.X", "NEXT-CSID", "48/16/16/48"), row("z", "5f00:0:100:0:c001::", "End.X", "NEXT-CSID", "48/16/16/48")));
