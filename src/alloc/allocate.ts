@@ -300,6 +300,20 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
         }
         return true;
       };
+      /** The smallest value >= v that range-based limits (reserved functions, the GIB of a one-C-SID layout) do not exclude. */
+      const skipUnfit = (v: bigint): bigint => {
+        for (const r of plan.reservedFunctions) if (v >= r.first && v <= r.last) return r.last + 1n;
+        if (L.kind === "compressed" && !L.twoCsid) {
+          const base = field << BigInt(L.functionBits);
+          const csid = base | v;
+          if (!inRanges(csid, L.gib)) {
+            let next: bigint | undefined;
+            for (const g of L.gib) if (g.first > csid && (next === undefined || g.first < next)) next = g.first;
+            return next === undefined || next - base > fnMax ? fnMax + 1n : next - base;
+          }
+        }
+        return v;
+      };
       // pass 1: pins and locked values
       const chosen = new Map<string, bigint>();
       for (let si = 0; si < specs.length; si++) {
@@ -362,8 +376,19 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
             cur.range++;
             continue;
           }
-          const v = cur.next++;
-          if (!taken.has(v) && fits(v)) {
+          const v = cur.next;
+          if (v > fnMax) {
+            cur.range = pool.length;
+            break;
+          }
+          if (!fits(v)) {
+            // jump over whole reserved or out-of-pool ranges instead of stepping value by value
+            const j = skipUnfit(v);
+            cur.next = j > v ? j : v + 1n;
+            continue;
+          }
+          cur.next = v + 1n;
+          if (!taken.has(v)) {
             found = v;
             break;
           }
@@ -481,6 +506,9 @@ function dedupeRetired(list: readonly RetiredValue[]): RetiredValue[] {
   return out;
 }
 
+/** How many candidate values one item may try at a level before the allocator gives up (bounds time on huge, mostly reserved levels). */
+const MAX_LEVEL_PROBES = 1 << 22;
+
 interface LevelItem {
   readonly id: string;
   readonly pinned: bigint | undefined;
@@ -552,20 +580,28 @@ function assignLevel(
   }
   const bits = bitOrder(level.order, level.bits);
   const size = 1n << BigInt(level.bits);
+  const counting = level.order === "sequential" || level.order === "rightmost";
   let k = 0n;
   for (const it of items) {
     if (out.has(it.id) || failed.has(it.id)) continue;
     if (it.pinned !== undefined) continue;
     let found: bigint | undefined;
-    while (k < size) {
+    let probes = 0;
+    while (k < size && probes++ < MAX_LEVEL_PROBES) {
       const v = nthValue(level.order, level.bits, k++, bits);
-      if (!taken.has(v) && !isReserved(v) && fits(it.id, v)) {
+      if (isReserved(v)) {
+        // in counting order a reserved range is one jump, not one step per value
+        if (counting) for (const r of level.reserved) if (v >= r.first && v <= r.last) k = r.last + 1n;
+        continue;
+      }
+      if (!taken.has(v) && fits(it.id, v)) {
         found = v;
         break;
       }
     }
     if (found === undefined) {
-      diags.push({ code: "alloc/level-full", message: `level ${quote(level.name)} (${level.bits} bits, ${levelCapacity(level)} usable values) has no free value left for ${it.label} (retired, reserved and global-pool limits count); widen the level or release retired values`, location: locate(it.at) });
+      const gaveUp = probes > MAX_LEVEL_PROBES ? ` (gave up after trying ${MAX_LEVEL_PROBES} values)` : "";
+      diags.push({ code: "alloc/level-full", message: `level ${quote(level.name)} (${level.bits} bits, ${levelCapacity(level)} usable values) has no free value left for ${it.label}${gaveUp} (retired, reserved and global-pool limits count); widen the level or release retired values`, location: locate(it.at) });
       continue;
     }
     out.set(it.id, found);

@@ -86,7 +86,7 @@ export function parseLock(text: string, file: string, planName: string): { ok: t
       return fail("lock/digest", "the lock file does not match its digest: it was edited by hand or damaged. Restore it from version control (or delete it to allocate afresh, which renumbers everything); nothing was written");
     }
     if (data.plan !== planName) {
-      return fail("lock/other-plan", `the lock belongs to plan ${JSON.stringify(data.plan)}, not to ${JSON.stringify(planName)}; point --lock-dir elsewhere or rename; nothing was written`);
+      return fail("lock/other-plan", `the lock belongs to plan ${JSON.stringify(data.plan)}, not to ${JSON.stringify(planName)}; point --lock at the right file; nothing was written`);
     }
     const big = (s: unknown) => {
       if (typeof s !== "string" || !/^0x[0-9a-f]+$/.test(s)) throw new Error(`bad value ${JSON.stringify(s)}`);

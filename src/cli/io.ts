@@ -2,7 +2,7 @@
  * File input and output for the CLI: reading with located errors, atomic writes (temp file in the
  * same folder, then rename), and the rule that we only overwrite files we wrote ourselves.
  */
-import { closeSync, fsyncSync, mkdirSync, openSync, readFileSync, renameSync, rmSync, statSync, writeSync } from "node:fs";
+import { closeSync, fsyncSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, statSync, writeSync } from "node:fs";
 import { hostname } from "node:os";
 import { basename, dirname, join } from "node:path";
 import type { Diagnostic } from "../plan/diagnostic.js";
@@ -52,12 +52,17 @@ export function readIfExists(file: string): string | undefined {
 export function isOurFile(path: string): boolean {
   let head = "";
   try {
-    const buf = readFileSync(path);
-    head = buf.subarray(0, 512).toString("utf8");
+    const fd = openSync(path, "r");
+    try {
+      const buf = Buffer.alloc(512);
+      head = buf.subarray(0, readSync(fd, buf, 0, 512, 0)).toString("utf8");
+    } finally {
+      closeSync(fd);
+    }
   } catch {
     return false;
   }
-  return head.startsWith("# sidcarve ") || /"schema":\s*"sidcarve\//.test(head);
+  return head.startsWith("# sidcarve ") || /"schema":\s*"sidcarve\//.test(head) || /"driver":\s*\{\s*"name":\s*"sidcarve"/.test(head);
 }
 
 export interface WriteOptions {

@@ -64,6 +64,7 @@ export function buildProgram(io: Io): Command & { exitCode?: number } {
     .addOption(new Option("--format <format>", "report format").choices(["text", "json", "sarif"]).default("text"))
     .addOption(new Option("--fail-on <severity>", "exit 1 when a finding at or above this severity remains").choices(["error", "warning", "info"]).default("error"))
     .option("--report <file>", "write the report to a file (atomically) instead of standard output")
+    .option("--force", "with --report: overwrite a file that sidcarve did not write")
     .action((input: string, flags) => done(runLint(input, flags, io)));
 
   program

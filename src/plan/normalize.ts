@@ -3,6 +3,7 @@
  * bit budgets, host bits, references between objects and the capacity of every level.
  */
 import { Prefix, parsePrefix } from "../net/prefix.js";
+import { rangesOverlapping } from "../net/special.js";
 import { type Flavor, parseFlavor } from "../sid/behaviors.js";
 import { type Diagnostic, quote } from "./diagnostic.js";
 import type {
@@ -26,6 +27,9 @@ import type {
   Vrf,
 } from "./model.js";
 import type { Locator } from "./source.js";
+
+/** Address categories no SID block may touch (IANA special-purpose and address-space registries). */
+const UNUSABLE_FOR_SIDS = new Set(["loopback", "unspecified", "ipv4-mapped", "ipv4-compatible", "link-local", "multicast"]);
 
 /** Default share of a level or pool in use above which the linter warns (our own choice, documented in the README). */
 export const DEFAULT_CAPACITY_THRESHOLD = 0.8;
@@ -113,6 +117,11 @@ export function normalizePlan(raw: Raw, file: string, locate: Locator): { ok: tr
     const prefix = pr.value;
     if (prefix.hasHostBits) {
       return err("plan/host-bits", [...at, "prefix"], `block prefix ${quote(b.prefix)} has bits set after /${prefix.len}; did you mean ${prefix.masked().format()}?`);
+    }
+    // Space where a SID can never work: refuse at load (softer cases are lint findings).
+    const unusable = rangesOverlapping(prefix).find((r) => UNUSABLE_FOR_SIDS.has(r.category));
+    if (unusable) {
+      return err("plan/block-space", [...at, "prefix"], `block prefix ${prefix.format()} overlaps ${unusable.text} (${unusable.name}, ${unusable.source}), where SIDs cannot be routed; choose a block in 5f00::/16 (RFC 9602) or in the operator's own unicast space`);
     }
     const algos: number[] = b.algorithms ?? [0];
     algos.forEach((a, j) => {

@@ -560,10 +560,12 @@ export function packTable(t: SidTable): PackedSidTable {
 
 // ------------------------------------------------------------------ reading CSV from bytes
 
-/** Interns byte strings; keeps its own copy of each distinct key and decodes it on demand. */
+/**
+ * Interns byte strings; keeps its own copy of each distinct key and decodes it on demand. The
+ * open-addressing table holds [hash, id + 1] pairs side by side, so a probe reads one place.
+ */
 class ByteInterner {
-  private slots = new Int32Array(1024); // id + 1, 0 = empty
-  private hashes = new Int32Array(256);
+  private slots = new Int32Array(2048); // pairs: hash, id + 1 (0 = empty)
   private starts = new Int32Array(256);
   private lens = new Int32Array(256);
   private store = new Uint8Array(4096);
@@ -582,23 +584,26 @@ class ByteInterner {
     h = Math.imul(h, 0xc2b2ae35);
     h ^= h >>> 16;
     const len = e - s;
-    const mask = this.slots.length - 1;
+    const slots = this.slots;
+    const mask = (slots.length >> 1) - 1;
     let slot = h & mask;
     for (;;) {
-      const v = this.slots[slot]!;
+      const v = slots[2 * slot + 1]!;
       if (v === 0) break;
-      const id = v - 1;
-      if (this.hashes[id] === h && this.lens[id] === len) {
-        const st = this.starts[id]!;
-        let k = 0;
-        while (k < len && this.store[st + k] === buf[s + k]) k++;
-        if (k === len) return id;
+      if (slots[2 * slot] === h) {
+        const id = v - 1;
+        if (this.lens[id] === len) {
+          const st = this.starts[id]!;
+          const store = this.store;
+          let k = 0;
+          while (k < len && store[st + k] === buf[s + k]) k++;
+          if (k === len) return id;
+        }
       }
       slot = (slot + 1) & mask;
     }
     const id = this.size++;
-    if (id >= this.hashes.length) {
-      this.hashes = growI32(this.hashes);
+    if (id >= this.starts.length) {
       this.starts = growI32(this.starts);
       this.lens = growI32(this.lens);
     }
@@ -608,12 +613,12 @@ class ByteInterner {
       this.store = st;
     }
     this.store.set(buf.subarray(s, e), this.used);
-    this.hashes[id] = h;
     this.starts[id] = this.used;
     this.lens[id] = len;
     this.used += len;
-    this.slots[slot] = id + 1;
-    if (this.size * 2 > this.slots.length) this.rehash();
+    slots[2 * slot] = h;
+    slots[2 * slot + 1] = id + 1;
+    if (this.size * 2 > mask + 1) this.rehash();
     return id;
   }
 
@@ -629,12 +634,17 @@ class ByteInterner {
   }
 
   private rehash(): void {
-    const slots = new Int32Array(this.slots.length * 2);
-    const mask = slots.length - 1;
-    for (let id = 0; id < this.size; id++) {
-      let slot = this.hashes[id]! & mask;
-      while (slots[slot] !== 0) slot = (slot + 1) & mask;
-      slots[slot] = id + 1;
+    const old = this.slots;
+    const slots = new Int32Array(old.length * 2);
+    const mask = (slots.length >> 1) - 1;
+    for (let o = 0; o < old.length; o += 2) {
+      const v = old[o + 1]!;
+      if (v === 0) continue;
+      const h = old[o]!;
+      let slot = h & mask;
+      while (slots[2 * slot + 1] !== 0) slot = (slot + 1) & mask;
+      slots[2 * slot] = h;
+      slots[2 * slot + 1] = v;
     }
     this.slots = slots;
   }
@@ -1006,7 +1016,8 @@ export function readCsvPacked(bytes: Uint8Array, plan = ""): PackedReadResult {
     }
     // context (checked on bytes: ';' and '=' are ASCII, so this is parseContext's own test)
     if (!get(COL_CTX)) vs = ve = 0; // an absent column reads as ""
-    const cid = internCol(COL_CTX, ctxIds);
+    // contexts seldom repeat the row before (and differ near their end), so no last-value check
+    const cid = ctxIds.intern(valBuf, vs, ve);
     if (cid === ctxValid.length) ctxValid.push(contextBytesValid(valBuf, vs, ve) ? 1 : 0);
     if (ctxValid[cid] === 0) return bad("context", ctxIds.text(cid), "context must be key=value pairs joined with ';'");
     // flavors
@@ -1069,7 +1080,13 @@ export function readCsvPacked(bytes: Uint8Array, plan = ""): PackedReadResult {
   };
 
   const onError = (line: number, message: string) => {
-    problems.push({ row: row + 1, field: "", message: `${message} (line ${line})`, value: "" });
+    // a broken record still counts as a row, so later rows keep their numbers (as readCsvTable)
+    if (header) {
+      row++;
+      if (row >= lineOfRow.length) lineOfRow = growI32(lineOfRow);
+      lineOfRow[row] = line;
+    }
+    problems.push({ row: header ? row : 0, field: "", message: `${message} (line ${line})`, value: "" });
   };
 
   const pushCell = (s: number, e: number) => {

@@ -237,7 +237,14 @@ export function readCsvTable(text: string, plan = ""): ReadTableResult {
       const flavors = (get("flavors") ?? "").split("+").map((f) => f.trim()).filter((f) => f !== "");
       addSid(b, node, { sid: a.value, behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key: sidKeyFromContext(behavior, flavors, algorithm, context), row });
     },
-    (line, message) => problems.push({ row: row + 1, field: "", message: `${message} (line ${line})`, value: "" }),
+    (line, message) => {
+      // a broken record still counts as a row, so later rows keep their numbers
+      if (header) {
+        row++;
+        lines[row] = line;
+      }
+      problems.push({ row: header ? row : 0, field: "", message: `${message} (line ${line})`, value: "" });
+    },
   );
   if (!header && !fatal) {
     problems.push({ row: 0, field: "", message: `the table has no header line; the first line must name the columns (required: ${REQUIRED_COLUMNS.join(", ")})`, value: "" });
@@ -342,7 +349,7 @@ export function readJsonTable(text: string): ReadTableResult {
       }
       const flavors = Array.isArray(s.flavors) ? s.flavors.map(textOf) : [];
       const algorithm = Number.isInteger(s.algorithm) ? s.algorithm : 0;
-      const context: Record<string, string> = {};
+      const context: Record<string, string> = Object.create(null); // keys such as "__proto__" stay data
       if (s.context && typeof s.context === "object") for (const [k, v] of Object.entries(s.context)) context[k] = textOf(v);
       const codepoint = Number.isInteger(s.codepoint) ? s.codepoint : undefined;
       const sid: SidEntry = { sid: a.value, behavior: s.behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key: sidKeyFromContext(s.behavior, flavors, algorithm, context), row };

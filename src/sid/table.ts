@@ -65,7 +65,8 @@ export function formatContext(c: SidContext): string {
 
 /** Parse `k=v;k=v`; returns undefined when a part has no '='. */
 export function parseContext(s: string): Record<string, string> | undefined {
-  const out: Record<string, string> = {};
+  // no prototype: a key such as "__proto__" is kept as data, not swallowed
+  const out: Record<string, string> = Object.create(null);
   if (s.trim() === "") return out;
   for (const part of s.split(";")) {
     const eq = part.indexOf("=");

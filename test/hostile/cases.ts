@@ -108,7 +108,7 @@ export function cases(): Case[] {
     planCase("huge-number-int", "a 39-digit bit length", "schema/maximum", "123456789012345678901234567890"),
     planCase("ipv4-prefix", "an IPv4 prefix where a block's IPv6 prefix is due", "plan/prefix", "192.0.2.0/24"),
     planCase("ipv4-infrastructure", "an IPv4 prefix in the infrastructure list", "plan/prefix", "192.0.2.0/24"),
-    planCase("ipv4-mapped", "an IPv4-mapped dotted-quad block prefix (/120) that leaves no room for node and function", "plan/structure", "structure:"),
+    planCase("ipv4-mapped", "an IPv4-mapped dotted-quad block prefix (/120): refused, SIDs cannot live in ::ffff:0:0/96", "plan/block-space", "prefix:"),
     planCase("zone-id", "a zone id in a block prefix", "plan/prefix", "%eth0"),
     planCase("zone-id-infrastructure", "a zone id in an infrastructure prefix", "plan/prefix", "%ring0"),
     planCase("control-char-name", "a node name holding a tab", "schema/pattern", "weir\\tpe1"),
@@ -229,11 +229,11 @@ export function cases(): Case[] {
     { id: "bom-crlf", about: "the valid plan with both", file: "bom-crlf.yaml", input: () => withBom(utf8(crlf(base))), command: "allocate", expect: { exit: 0 } },
     {
       id: "ipv4-mapped-block",
-      about: "a block inside ::ffff:0:0/96 (IPv4-mapped): loads, and lint reports it",
+      about: "a block inside ::ffff:0:0/96 (IPv4-mapped): the loader refuses it (IANA special-purpose registry)",
       file: "ipv4-mapped-block.yaml",
       input: () => corpusBytes("ipv4-mapped-block.yaml"),
       command: "lint",
-      expect: { exit: 1, rule: "reserved-space", lines: [lineOf(corpusText("ipv4-mapped-block.yaml"), "::ffff:0.0.0.0/96")] },
+      expect: { exit: 2, code: "plan/block-space", line: lineOf(corpusText("ipv4-mapped-block.yaml"), "::ffff:0.0.0.0/96") },
     },
     {
       id: "function-scan",
@@ -242,7 +242,6 @@ export function cases(): Case[] {
       input: () => corpusBytes("function-scan.yaml"),
       command: "allocate",
       expect: { exit: 2, code: "alloc/pool-full" },
-      knownDefect: "the allocator steps through function values one by one (src/alloc/allocate.ts, pass 2) and runs for hours",
     },
   ];
   const table = (id: string, about: string, expect: Expect): Case => ({ id, about, file: id, input: () => corpusBytes(id), command: "lint", expect });

@@ -4,7 +4,7 @@ import { csvChunks } from "../../emit/csv.js";
 import { jsonChunks } from "../../emit/json.js";
 import { safeFileName } from "../../emit/names.js";
 import type { Io } from "../context.js";
-import { UsageError, writeAtomic } from "../io.js";
+import { UsageError, checkWritable, writeAtomic } from "../io.js";
 import { loadPlanFile, lockPathFor, lockedAllocation } from "../plan-files.js";
 
 export interface EmitFlags {
@@ -28,7 +28,10 @@ export function runEmit(planFile: string, flags: EmitFlags, io: Io): number {
     return 0;
   }
   if (flags.perNode) {
-    for (const n of t.nodes) writeAtomic(join(flags.out, `${safeFileName(n.node)}.${ext}`), chunks([n]), { force: flags.force });
+    const files = t.nodes.map((n) => join(flags.out!, `${safeFileName(n.node)}.${ext}`));
+    // check every target first, so a refusal never leaves half a set written
+    checkWritable(files, { force: flags.force });
+    t.nodes.forEach((n, i) => writeAtomic(files[i]!, chunks([n]), { force: flags.force }));
     io.out(`${t.nodes.length} ${ext.toUpperCase()} tables written to ${flags.out}/\n`);
   } else {
     const file = join(flags.out, `${safeFileName(plan.name)}.sids.${ext}`);

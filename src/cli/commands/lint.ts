@@ -21,6 +21,7 @@ export interface LintFlags {
   readonly format?: string;
   readonly failOn?: string;
   readonly report?: string;
+  readonly force?: boolean;
 }
 
 /** What kind of file INPUT is: a CSV table, a JSON table, or a plan. */
@@ -37,7 +38,8 @@ export function inputKind(file: string, bytes: Uint8Array): "csv" | "json-table"
 export function runLint(input: string, flags: LintFlags, io: Io): number {
   const failOn = (flags.failOn ?? "error") as FindingSeverity;
   const today = isoDay(io.now);
-  const bytes = readInput(input);
+  // `let`, so that a large CSV file's bytes can be let go once the table is in columns
+  let bytes: Uint8Array | undefined = readInput(input);
   const kind = inputKind(input, bytes);
   let result: LintResult;
   if (kind === "plan") {
@@ -53,6 +55,7 @@ export function runLint(input: string, flags: LintFlags, io: Io): number {
       throw new UsageError(`${input}: cannot be read`, d.ok ? [] : d.diagnostics);
     }
     const read = readCsvPacked(bytes);
+    bytes = undefined;
     if (read.unreadable) {
       throw new UsageError(`${input}: not a SID table: ${read.problems.map((p) => p.message).join("; ")}`);
     }
@@ -71,7 +74,9 @@ export function runLint(input: string, flags: LintFlags, io: Io): number {
   const text =
     flags.format === "json" ? lintJson(result, input) : flags.format === "sarif" ? lintSarif(result, ALL_RULES.map((r) => r.meta), VERSION) : lintText(result, input, io.isTty);
   if (flags.report) {
-    writeAtomic(flags.report, [text]);
+    // a text report written to a file opens with a banner line so a later run knows it as ours
+    const body = flags.format === "json" || flags.format === "sarif" ? text : `# sidcarve lint report for ${input}\n${text}`;
+    writeAtomic(flags.report, [body], { force: flags.force });
     io.out(`${input}: ${result.counts.error} errors, ${result.counts.warning} warnings, ${result.counts.info} info; report written to ${flags.report}\n`);
   } else io.out(text);
   return failExitCode(result, failOn);

@@ -1,7 +1,8 @@
 /** `sidcarve release PLAN (--all | NAME...)`: free retired values so they can be handed out again. */
 import { releaseRetired, serializeLock } from "../../alloc/lock.js";
 import type { Io } from "../context.js";
-import { UsageError, readIfExists, writeAtomic } from "../io.js";
+import type { Plan } from "../../plan/model.js";
+import { UsageError, readIfExists, withBusyMarker, writeAtomic } from "../io.js";
 import { loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
 
 export interface ReleaseFlags {
@@ -13,6 +14,11 @@ export function runRelease(planFile: string, names: readonly string[], flags: Re
   if (!flags.all && names.length === 0) throw new UsageError("name what to release (a group path, node, anycast group or SID key), or give --all");
   const plan = loadPlanFile(planFile);
   const lockFile = lockPathFor(planFile, flags.lock);
+  // hold the lock's busy marker from read to write, as allocate does
+  return withBusyMarker(lockFile, () => releaseHolding(plan, lockFile, names, flags, io));
+}
+
+function releaseHolding(plan: Plan, lockFile: string, names: readonly string[], flags: ReleaseFlags, io: Io): number {
   const { lock, text } = loadLock(plan, lockFile);
   if (!lock) throw new UsageError(`${lockFile}: no lock yet; nothing is retired`);
   const { lock: next, released } = releaseRetired(lock, flags.all ? "all" : names);
