@@ -4,10 +4,12 @@
 // ipaddress and in three TypeScript forms, and writes docs/benchmarks.md.
 // Timings are reported here and in the document only; no test asserts a timing.
 //
-// Options: --sizes 1000,5000,20000  --runs 3  --large-runs N (runs for sizes >= 20000; default
-// --runs)  --seed 7  --timeout SECONDS (per child process; default 600)  --no-write (print only)
+// Options: --sizes 1000,5000,20000  --runs 3  --large-runs N (runs for sizes >= 20000; default 1)
+// --seed 7  --timeout SECONDS (per child process; default 300)  --no-write (print only)
 // --save-baseline (also keep the numbers in bench/baseline.json, shown as "before" in later
-// documents)  --skip-process  --skip-sweep
+// documents)  --skip-process  --skip-sweep  --plan-format yaml|json (json: the same plans written as
+// JSON, for when the loader reads JSON faster than YAML)  --from-last (no runs: write the document
+// again from bench/out/last-run.json, which every run keeps)
 import { spawnSync } from "node:child_process";
 import { createHash } from "node:crypto";
 import { existsSync, mkdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
@@ -27,10 +29,14 @@ const opt = (name, dflt) => {
 const flag = (name) => args.includes(`--${name}`);
 const SIZES = String(opt("sizes", "1000,5000,20000")).split(",").map(Number);
 const RUNS = Number(opt("runs", "3"));
-const LARGE_RUNS = Number(opt("large-runs", String(RUNS)));
+// one run for the largest size by default: a run there takes minutes while the plan loader is slow
+const LARGE_RUNS = Number(opt("large-runs", "1"));
 const SEED = Number(opt("seed", "7"));
 const runsFor = (n) => (n >= 20000 ? LARGE_RUNS : RUNS);
-const TIMEOUT_S = Number(opt("timeout", "600"));
+const TIMEOUT_S = Number(opt("timeout", "300"));
+const PLAN_FORMAT = opt("plan-format", "yaml");
+const PLAN_NAME = PLAN_FORMAT === "json" ? "plan.json" : "plan.yaml";
+process.env.BENCH_PLAN = PLAN_NAME;
 const log = (s) => process.stderr.write(s + "\n");
 
 const median = (xs) => {
@@ -50,6 +56,14 @@ async function ensureData(n) {
   await generate(n, SEED, dir);
   writeFileSync(stamp, want);
   return dir;
+}
+
+/** The plan as JSON beside the YAML (same data; the lock file is the same). */
+async function ensureJsonPlan(dir) {
+  const json = join(dir, "plan.json");
+  if (existsSync(json) && statSync(json).mtimeMs >= statSync(join(dir, "plan.yaml")).mtimeMs) return;
+  const { parse } = await import(join(ROOT, "node_modules/yaml/dist/index.js"));
+  writeFileSync(json, JSON.stringify(parse(readFileSync(join(dir, "plan.yaml"), "utf8"), { maxAliasCount: -1 }), null, 1) + "\n");
 }
 
 // ---------------------------------------------------------------- library stages
@@ -100,7 +114,7 @@ function processes(dir, runs) {
   const tmp = join(dir, "tmp");
   rmSync(tmp, { recursive: true, force: true });
   mkdirSync(tmp, { recursive: true });
-  const plan = join(dir, "plan.yaml");
+  const plan = join(dir, PLAN_NAME);
   const cmds = [
     ["allocate", ["allocate", plan, "--dry-run"]],
     ["emit-csv", ["emit", plan, "--format", "csv", "--out", tmp, "--force"]],
@@ -185,9 +199,11 @@ const machine = {
 };
 log(`machine: ${machine.cpu}, ${machine.cores} cores, ${machine.memoryGb} GB, node ${machine.node}, ${machine.python}`);
 
+const FROM_LAST = flag("from-last");
 const results = [];
-for (const n of SIZES) {
+for (const n of FROM_LAST ? [] : SIZES) {
   const dir = await ensureData(n);
+  if (PLAN_FORMAT === "json") await ensureJsonPlan(dir);
   const runs = runsFor(n);
   log(`r${n}: ${runs} runs`);
   const stages = {};
@@ -200,7 +216,18 @@ for (const n of SIZES) {
   results.push({ routers: n, sids: stages.allocate.sids, tableSids: stages["lint-table"].sids, stages, processes: proc, sweeps: sw });
 }
 
-const summary = { machine, runs: RUNS, largeRuns: LARGE_RUNS, seed: SEED, timeoutS: TIMEOUT_S, results };
+const summary = FROM_LAST
+  ? JSON.parse(readFileSync(join(OUT, "last-run.json"), "utf8"))
+  : { machine, runs: RUNS, largeRuns: LARGE_RUNS, seed: SEED, timeoutS: TIMEOUT_S, planFormat: PLAN_FORMAT, results };
+if (!FROM_LAST) {
+  mkdirSync(OUT, { recursive: true });
+  writeFileSync(join(OUT, "last-run.json"), JSON.stringify(summary, null, 2) + "\n");
+}
+for (const r of summary.results) {
+  const d = r.processes?.defects ?? [];
+  const miss = d.filter((x) => x.foundBy.length === 0);
+  if (d.length) log(`r${r.routers}: ${d.length - miss.length} of ${d.length} planted defects found${miss.length ? ` (not found: ${miss.map((x) => x.kind).join("; ")})` : ""}`);
+}
 if (flag("save-baseline")) writeFileSync(join(ROOT, "bench/baseline.json"), JSON.stringify(summary, null, 2) + "\n");
 const baseline = existsSync(join(ROOT, "bench/baseline.json")) ? JSON.parse(readFileSync(join(ROOT, "bench/baseline.json"), "utf8")) : undefined;
 const doc = renderDoc(summary, flag("save-baseline") ? undefined : baseline);
@@ -242,9 +269,15 @@ function renderDoc(s, before) {
   L.push("planted in it (see `defects.json` beside each table).", "");
   L.push("Times are wall clock with the CPU time (user + system, all threads) beside it: on a shared machine the wall");
   L.push("time also counts waiting for a core, the CPU time much less so.", "");
+  if (before) {
+    L.push(`"Before" numbers come from \`bench/baseline.json\`: the same benchmark run on the same machine with the code as it`);
+    L.push(`stood before the fast paths (median of ${before.runs} run${before.runs === 1 ? "" : "s"}; load average ${before.machine.load ?? "unknown"} at its start, so its wall times`);
+    L.push("carry more waiting than the CPU times do). Rules changed between the two runs as well.", "");
+  }
   L.push("## Machine", "");
   L.push(`- CPU: ${s.machine.cpu}, ${s.machine.cores} cores`, `- memory: ${s.machine.memoryGb} GB`, `- Node.js ${s.machine.node}; ${s.machine.python}`);
   if (s.machine.load) L.push(`- load average when the run started: ${s.machine.load}`);
+  L.push(`- plans read as ${s.planFormat === "json" ? "JSON (plan.json)" : "YAML (plan.yaml)"}`);
   L.push(`- runs: median of ${s.runs} (${s.largeRuns} for 20,000 routers); peak memory is the largest of the runs; a child is stopped after ${s.timeoutS ?? 600} s`, "");
   L.push("## Whole processes (the CLI)", "");
   L.push("From spawn to exit; peak resident memory from `/usr/bin/time -v`.", "");
@@ -351,6 +384,18 @@ function renderDoc(s, before) {
     const small = s.results.find((r) => r.sweeps?.naive);
     if (small) L.push("", `On the smallest size the naive O(n²) reference takes ${(small.sweeps.naive.total_s / small.sweeps.packed.total_s).toFixed(0)}× as long as the packed sweep and ${(small.sweeps.naive.total_s / small.sweeps.python.total_s).toFixed(1)}× as long as Python's sort-and-sweep.`);
     L.push("");
+  }
+  {
+    // where a whole emit process spends its time, from the library stages of the same size
+    const r = s.results.find((x) => x.routers === 20000) ?? last;
+    const p = r.processes?.["emit-csv"];
+    const part = (k) => stageCpu(r, k);
+    const parts = [["load + validate", part("load")], ["lock", part("lock")], ["allocate", part("allocate")], ["emit CSV", part("emit-csv")]];
+    if (p && !p.timedOut && parts.every(([, v]) => Number.isFinite(v))) {
+      const sum = parts.reduce((acc, [, v]) => acc + v, 0);
+      L.push(`## Where an \`emit\` process spends its time (${num(r.routers)} routers, CPU)`, "");
+      L.push(`The process took ${sec(p.cpuMs)} of CPU; its library stages alone: ` + parts.map(([k, v]) => `${k} ${sec(v)} (${Math.round((100 * v) / sum)} %)`).join(", ") + ". The rest is start-up, the lock check and writing the file.", "");
+    }
   }
   L.push("## Targets", "");
   const big = s.results.find((r) => r.routers === 20000) ?? last;

@@ -28,7 +28,8 @@ const text = await dist("net/text.js");
 /** The packed reader, when this build has it (older builds only have readCsvTable). */
 const packed = await dist("sid/packed.js").catch(() => undefined);
 
-const planFile = join(dir, "plan.yaml");
+// BENCH_PLAN picks the plan's file: plan.yaml (default) or plan.json (the same plan as JSON)
+const planFile = join(dir, process.env.BENCH_PLAN ?? "plan.yaml");
 const lockFile = join(dir, "plan.lock.json");
 const tableFile = join(dir, "table.csv");
 

@@ -109,8 +109,9 @@ function sidText(s: SidEntry, pad: string): string {
     ctx += `\n${p1}}`;
   }
   return (
-    `{\n${p1}"sid": ${str(formatAddr(s.sid))},\n${p1}"behavior": ${str(s.behavior)},\n${p1}"flavors": ${flv},\n${p1}"codepoint": ${s.codepoint === undefined ? "null" : num(s.codepoint)},` +
-    `\n${p1}"algorithm": ${num(s.algorithm)},\n${p1}"locator": ${s.locator ? str(s.locator.format()) : "null"},\n${p1}"function": ${str("0x" + s.function.toString(16))},` +
+    // addresses, prefixes and hex numbers hold only [0-9a-f:./x], which JSON never escapes
+    `{\n${p1}"sid": "${formatAddr(s.sid)}",\n${p1}"behavior": ${str(s.behavior)},\n${p1}"flavors": ${flv},\n${p1}"codepoint": ${s.codepoint === undefined ? "null" : num(s.codepoint)},` +
+    `\n${p1}"algorithm": ${num(s.algorithm)},\n${p1}"locator": ${s.locator ? `"${s.locator.format()}"` : "null"},\n${p1}"function": "0x${s.function.toString(16)}",` +
     `\n${p1}"structure": ${st ? `{\n${p2}"block": ${num(st.block)},\n${p2}"node": ${num(st.node)},\n${p2}"function": ${num(st.function)},\n${p2}"argument": ${num(st.argument)}\n${p1}}` : "null"},` +
     `\n${p1}"context": ${ctx}\n${pad}}`
   );

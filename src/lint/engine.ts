@@ -4,7 +4,8 @@
  *
  * The views are made lazily, when the first rule asks for them: `ctx.packed` (the SID table in
  * columns with its sorted orders) and the object views `ctx.sids` / `ctx.locators`, which are
- * materialised from the packed orders. A rule that touches none of them costs nothing.
+ * materialised from the packed orders when the input came packed (a CSV table), and sorted by
+ * `prepare` when it came as objects (an allocation). A rule that touches none costs nothing.
  */
 import type { Plan, Severity } from "../plan/model.js";
 import type { SourceLocation } from "../plan/diagnostic.js";
@@ -75,8 +76,9 @@ export interface LintOptions {
 const cmpBig = (a: bigint, b: bigint) => (a < b ? -1 : a > b ? 1 : 0);
 
 /**
- * Sorted views shared by all rules: the readable reference for the packed orders the engine uses
- * (tests compare them). Comparator sorts over objects; n log n bigint comparisons.
+ * Sorted views shared by all rules, by comparator sorts over objects (n log n bigint comparisons).
+ * This is the order every view follows: the engine uses it directly for inputs that came as
+ * objects, and tests check the packed orders (radix sorts on the packed columns) against it.
  */
 export function prepare(input: LintInput): { locators: OwnedLocator[]; sids: OwnedSid[] } {
   const locators: OwnedLocator[] = [];
@@ -121,8 +123,20 @@ export class LintViews {
     return this.packedView;
   }
 
+  /**
+   * An input that came as objects (an allocation) gets its object views from `prepare`: its
+   * tables are nearly sorted already, which a comparator sort exploits, and packing would cost
+   * more than it saves. The packed view is then only made when a rule asks for it.
+   */
+  private fromObjects(): void {
+    const r = this.timed(() => prepare(this.input));
+    this.sidList = r.sids;
+    this.locatorList = r.locators;
+  }
+
   /** All SIDs sorted by address then node (the order of `prepare`). */
   get sids(): OwnedSid[] {
+    if (!this.sidList && !this.input.packed) this.fromObjects();
     if (!this.sidList) {
       const v = this.packed;
       this.sidList = this.timed(() => {
@@ -141,6 +155,7 @@ export class LintViews {
 
   /** All locators sorted by first address, length, node (the order of `prepare`). */
   get locators(): OwnedLocator[] {
+    if (!this.locatorList && !this.input.packed) this.fromObjects();
     if (!this.locatorList) {
       const v = this.packed;
       this.locatorList = this.timed(() => {

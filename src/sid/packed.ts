@@ -26,6 +26,10 @@ function maskOf(flavors: readonly string[]): number {
   return m;
 }
 
+/** Bigints of small function values, made once (bigints are values: sharing them changes nothing). */
+const SMALL_LIMIT = 1 << 16;
+const SMALL: bigint[] = [];
+
 const structKey = (s: SidStructure) => `${s.block}/${s.node}/${s.function}/${s.argument}`;
 
 /**
@@ -49,9 +53,10 @@ export class PackedSidTable {
   readonly flavorSet: Int32Array;
   /** The flavours as bits (see FLAVOR_BIT). */
   readonly flavorMask: Uint8Array;
-  /** Codepoint, or -1 when none is given. */
-  readonly codepoint: Int32Array;
-  readonly algorithm: Uint8Array;
+  /** Codepoint, or NaN when none is given (a float column: a table read from JSON may hold any integer). */
+  readonly codepoint: Float64Array;
+  /** Algorithm (0..255 from CSV; any integer a JSON table holds). */
+  readonly algorithm: Int32Array;
   /** Function value when below 2^53; NaN otherwise (the value is then in `bigFunctions`). */
   readonly fn: Float64Array;
   /** Structure id (index into `structures`), or -1 when none is given. */
@@ -64,7 +69,7 @@ export class PackedSidTable {
   /** Locator table: owning node, algorithm and prefix of each owned locator. */
   locatorCount = 0;
   locNode: Int32Array;
-  locAlgorithm: Uint8Array;
+  locAlgorithm: Int32Array;
   locPrefix: Int32Array;
   /** Distinct prefixes (as written, host bits kept) with their words and lengths. */
   readonly prefixes: Prefix[] = [];
@@ -113,15 +118,15 @@ export class PackedSidTable {
     this.behavior = new Int32Array(capacity);
     this.flavorSet = new Int32Array(capacity);
     this.flavorMask = new Uint8Array(capacity);
-    this.codepoint = new Int32Array(capacity);
-    this.algorithm = new Uint8Array(capacity);
+    this.codepoint = new Float64Array(capacity);
+    this.algorithm = new Int32Array(capacity);
     this.fn = new Float64Array(capacity);
     this.structure = new Int32Array(capacity);
     this.row = new Int32Array(capacity);
     this.context = new Int32Array(capacity);
     this.entries = new Array(capacity);
     this.locNode = new Int32Array(64);
-    this.locAlgorithm = new Uint8Array(64);
+    this.locAlgorithm = new Int32Array(64);
     this.locPrefix = new Int32Array(64);
     this.pw0 = new Uint32Array(64);
     this.pw1 = new Uint32Array(64);
@@ -143,6 +148,7 @@ export class PackedSidTable {
   /** The function value of SID i. */
   functionAt(i: number): bigint {
     const f = this.fn[i]!;
+    if (f < SMALL_LIMIT) return SMALL[f] ?? (SMALL[f] = BigInt(f));
     return Number.isNaN(f) ? this.bigFunctions.get(i)! : BigInt(f);
   }
 
@@ -206,7 +212,7 @@ export class PackedSidTable {
       const st = this.structure[i]!;
       const row = this.row[i]!;
       const sid = this.sidAt(i);
-      const codepoint = cp < 0 ? undefined : cp;
+      const codepoint = Number.isNaN(cp) ? undefined : cp;
       const locator = loc < 0 ? undefined : this.prefixes[this.locPrefix[loc]!];
       const fn = this.functionAt(i);
       const structure = st < 0 ? undefined : this.structures[st];
@@ -280,11 +286,6 @@ export class PackedSidTable {
   }
 
   /** @internal */
-  pushContextText(t: string | undefined): void {
-    this.ctxTexts.push(t);
-  }
-
-  /** @internal */
   pushContextObject(c: SidContext): void {
     this.ctxObjects.push(c);
   }
@@ -326,7 +327,7 @@ export class PackedSidTable {
       const ln = new Int32Array(this.locNode.length * 2);
       ln.set(this.locNode);
       this.locNode = ln;
-      const la = new Uint8Array(this.locAlgorithm.length * 2);
+      const la = new Int32Array(this.locAlgorithm.length * 2);
       la.set(this.locAlgorithm);
       this.locAlgorithm = la;
       const lp = new Int32Array(this.locPrefix.length * 2);
@@ -466,13 +467,19 @@ export function packTable(t: SidTable): PackedSidTable {
   let i = 0;
   t.nodes.forEach((n, nodeId) => {
     p.nodeNames.push(n.node);
-    // this node's locators, by algorithm and prefix (for the SIDs' locator ids)
+    // this node's locators, by algorithm and prefix (for the SIDs' locator ids); an allocation's
+    // SIDs share the Prefix object of their locator, so the object is tried before the value
     const own = new Map<string, number>();
+    const ownObj = new Map<Prefix, number>();
     for (const l of n.locators) {
       const id = p.addLocator(nodeId, l.algorithm, prefixId(l.prefix));
       p.setLocatorEntry(id, l);
       const k = `${l.algorithm}|${p.plen[p.locPrefix[id]!]}|${l.prefix.addr}`;
       if (!own.has(k)) own.set(k, id);
+    }
+    for (const l of n.locators) {
+      const id = own.get(`${l.algorithm}|${l.prefix.len}|${l.prefix.addr}`)!;
+      if (!ownObj.has(l.prefix) || p.locAlgorithm[ownObj.get(l.prefix)!] !== l.algorithm) ownObj.set(l.prefix, id);
     }
     for (const s of n.sids) {
       const [a, b, c, d] = toWords(s.sid);
@@ -483,8 +490,10 @@ export function packTable(t: SidTable): PackedSidTable {
       p.node[i] = nodeId;
       let loc = -1;
       if (s.locator) {
-        const k = `${s.algorithm}|${s.locator.len}|${s.locator.addr}`;
-        loc = own.get(k) ?? -1;
+        const byObj = ownObj.get(s.locator);
+        if (byObj !== undefined && p.locAlgorithm[byObj] === s.algorithm) loc = byObj;
+        const k = loc >= 0 ? "" : `${s.algorithm}|${s.locator.len}|${s.locator.addr}`;
+        if (loc < 0) loc = own.get(k) ?? -1;
         if (loc < 0) {
           // a SID naming a locator its node does not list: keep it in the table, unlisted
           loc = p.addLocator(nodeId, s.algorithm, prefixId(s.locator));
@@ -503,9 +512,9 @@ export function packTable(t: SidTable): PackedSidTable {
       p.behavior[i] = bid;
       let fid = flavorIds.get(s.flavors);
       if (fid === undefined) {
-        const txt = s.flavors.join("+");
+        const txt = JSON.stringify(s.flavors);
         fid = flavorText.get(txt);
-        if (fid === undefined || p.flavorSets[fid]!.length !== s.flavors.length) {
+        if (fid === undefined) {
           fid = p.flavorSets.length;
           p.flavorSets.push(s.flavors);
           flavorText.set(txt, fid);
@@ -514,7 +523,7 @@ export function packTable(t: SidTable): PackedSidTable {
       }
       p.flavorSet[i] = fid;
       p.flavorMask[i] = maskOf(s.flavors);
-      p.codepoint[i] = s.codepoint ?? -1;
+      p.codepoint[i] = s.codepoint ?? NaN;
       p.algorithm[i] = s.algorithm;
       if (s.function < 2n ** 53n && s.function >= 0n) p.fn[i] = Number(s.function);
       else {
@@ -939,7 +948,7 @@ export function readCsvPacked(bytes: Uint8Array, plan = ""): PackedReadResult {
       prefix = pv;
     }
     // codepoint
-    let codepoint = -1;
+    let codepoint = NaN;
     if (get(COL_CP) && ve > vs) {
       const v = digits(5);
       if (v < 0 || v > 65535) {

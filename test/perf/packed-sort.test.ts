@@ -81,17 +81,20 @@ describe("the packed orders give prepare's order", () => {
         const table = { plan: "p", nodes };
         const input: LintInput = { table, file: "t", fromTable: true, rowProblems: [], today: TODAY };
         const ref = prepare(input);
-        const views = new LintViews(input);
-        expect(views.sids.length).toBe(ref.sids.length);
-        views.sids.forEach((s, k) => {
-          expect(s.entry).toBe(ref.sids[k]!.entry);
-          expect(s.node).toBe(ref.sids[k]!.node);
+        // the packed view of an object input: its orders give prepare's order, with the same objects
+        const { table: p, sidOrder: so, locatorOrder: lo } = new LintViews(input).packed;
+        expect(so.length).toBe(ref.sids.length);
+        so.forEach((i, k) => {
+          expect(p.entry(i)).toBe(ref.sids[k]!.entry);
+          expect(p.nodeOf(i)).toBe(ref.sids[k]!.node);
+          expect(p.formatSid(i)).toBe(formatAddr(ref.sids[k]!.entry.sid));
         });
-        views.locators.forEach((l, k) => {
-          expect(l.entry).toBe(ref.locators[k]!.entry);
-          expect(l.node).toBe(ref.locators[k]!.node);
+        expect(lo.length).toBe(ref.locators.length);
+        lo.forEach((id, k) => {
+          expect(p.locatorEntry(id)).toBe(ref.locators[k]!.entry);
+          expect(p.nodeNames[p.locNode[id]!]).toBe(ref.locators[k]!.node);
         });
-        expect(views.locators.length).toBe(ref.locators.length);
+        expect(p.toTable()).toBe(table);
         expect(packTable(table).toTable()).toBe(table);
       }),
       { seed: 8986, numRuns: 500 },
@@ -117,10 +120,10 @@ describe("the packed orders give prepare's order", () => {
     if (!a.ok) throw new Error("allocation failed");
     const input = inputFromAllocation(a.allocation, TODAY);
     const ref = prepare(input);
-    const views = new LintViews(input);
-    expect(views.sids.map((s) => [s.node, s.entry])).toEqual(ref.sids.map((s) => [s.node, s.entry]));
-    expect(views.locators.map((l) => [l.node, l.entry])).toEqual(ref.locators.map((l) => [l.node, l.entry]));
-    expect(views.locators.some((l) => l.entry.anycast === "edge")).toBe(true);
+    const { table: p, sidOrder: so, locatorOrder: lo } = new LintViews(input).packed;
+    expect([...so].map((i) => [p.nodeOf(i), p.entry(i)])).toEqual(ref.sids.map((s) => [s.node, s.entry]));
+    expect([...lo].map((id) => [p.nodeNames[p.locNode[id]!], p.locatorEntry(id)])).toEqual(ref.locators.map((l) => [l.node, l.entry]));
+    expect(ref.locators.filter((l) => l.entry.anycast === "edge").length).toBeGreaterThan(1);
   });
 });
 
