@@ -57,6 +57,11 @@ export interface LintResult {
   /** Findings suppressed by a valid waiver. */
   readonly waived: readonly Finding[];
   readonly rulesRun: readonly string[];
+  /**
+   * Whether a rule asked for the object views (ctx.sids / ctx.locators). For a packed table input
+   * this should stay false: the object views cost hundreds of bytes per SID.
+   */
+  readonly objectViewsMade: boolean;
   readonly counts: Readonly<Record<FindingSeverity, number>>;
 }
 
@@ -100,6 +105,7 @@ export class LintViews {
   private packedView: PackedLintView | undefined;
   private sidList: OwnedSid[] | undefined;
   private locatorList: OwnedLocator[] | undefined;
+  private readonly memo = new Map<string, unknown>();
   viewMs = 0;
 
   constructor(private readonly input: LintInput) {}
@@ -132,6 +138,17 @@ export class LintViews {
     const r = this.timed(() => prepare(this.input));
     this.sidList = r.sids;
     this.locatorList = r.locators;
+  }
+
+  /** A value shared by the rules of this run (see RuleContext.shared); its time counts as views. */
+  shared<T>(key: string, make: () => T): T {
+    if (!this.memo.has(key)) this.memo.set(key, this.timed(make));
+    return this.memo.get(key) as T;
+  }
+
+  /** Whether the object views (`sids`, `locators`) were made: a packed table input should never need them. */
+  get objectViewsMade(): boolean {
+    return this.sidList !== undefined || this.locatorList !== undefined;
   }
 
   /** All SIDs sorted by address then node (the order of `prepare`). */
@@ -225,6 +242,7 @@ export function runLint(input: LintInput, rules: readonly Rule[], options: LintO
       locateNode,
       locateSid,
       locatePlan,
+      shared: (key, make) => views.shared(key, make),
       report(r: Report) {
         findings.push({
           rule: id,
@@ -263,7 +281,7 @@ export function runLint(input: LintInput, rules: readonly Rule[], options: LintO
   waived.sort(compareFindings);
   const counts = { info: 0, warning: 0, error: 0 };
   for (const f of kept) counts[f.severity]++;
-  return { findings: kept, waived, rulesRun, counts };
+  return { findings: kept, waived, rulesRun, counts, objectViewsMade: views.objectViewsMade };
 }
 
 /** Order: most severe first, then by place in the file, then rule and message. */

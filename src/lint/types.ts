@@ -106,6 +106,11 @@ export interface RuleContext {
   locateSid(s: OwnedSid): SourceLocation;
   /** Location of a plan path (file only when there is no plan). */
   locatePlan(path: readonly (string | number)[]): SourceLocation;
+  /**
+   * A value computed once per lint run and shared by every rule that asks with the same key
+   * (e.g. the subjects the space rules all judge). `make` must be pure: it sees the same input.
+   */
+  shared<T>(key: string, make: () => T): T;
 }
 
 export interface Rule {

@@ -4,13 +4,14 @@
  */
 import { stringify } from "yaml";
 import { allocate } from "../../src/alloc/allocate.js";
-import { runLint } from "../../src/lint/engine.js";
+import { inputFromPacked, runLint } from "../../src/lint/engine.js";
 import { inputFromAllocation, inputFromTable } from "../../src/lint/input.js";
 import { ruleById } from "../../src/lint/rules/index.js";
 import type { Finding } from "../../src/lint/types.js";
 import { formatDiagnostic } from "../../src/plan/diagnostic.js";
 import { loadPlanText } from "../../src/plan/load.js";
 import type { Plan } from "../../src/plan/model.js";
+import { readCsvPacked } from "../../src/sid/packed.js";
 import { readCsvTable, readJsonTable } from "../../src/sid/table-read.js";
 
 export const TODAY = "2026-06-01";
@@ -31,12 +32,21 @@ export function lintPlanWith(ruleId: string, obj: unknown): Finding[] {
   return [...runLint(inputFromAllocation(r.allocation, TODAY), [rule]).findings];
 }
 
-/** Findings of one rule on a CSV table, with an optional plan for intent. */
+/**
+ * Findings of one rule on a CSV table, with an optional plan for intent. The table is read both
+ * ways (readCsvTable, the readable reference, and readCsvPacked, the fast path the CLI uses);
+ * the findings must be the same to the letter, or this throws.
+ */
 export function lintCsvWith(ruleId: string, csv: string, planObj?: unknown): Finding[] {
   const rule = ruleById(ruleId);
   if (!rule) throw new Error(`no rule ${ruleId}`);
   const plan = planObj === undefined ? undefined : loadPlan(planObj);
-  return [...runLint(inputFromTable(readCsvTable(csv), "table.csv", TODAY, plan), [rule]).findings];
+  const viaObjects = [...runLint(inputFromTable(readCsvTable(csv), "table.csv", TODAY, plan), [rule]).findings];
+  const viaPacked = [...runLint(inputFromPacked(readCsvPacked(new TextEncoder().encode(csv)), "table.csv", TODAY, plan), [rule]).findings];
+  const a = JSON.stringify(viaObjects, null, 1);
+  const b = JSON.stringify(viaPacked, null, 1);
+  if (a !== b) throw new Error(`rule ${ruleId}: the packed table gives other findings than the object table\nobjects: ${a}\npacked: ${b}`);
+  return viaObjects;
 }
 
 /** Findings of one rule on a JSON table. */
