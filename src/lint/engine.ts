@@ -217,6 +217,11 @@ export function runLint(input: LintInput, rules: readonly Rule[], options: LintO
     return a >= 0 ? locatePlan(["anycast", a]) : { file: input.file };
   };
   const locateSid = (s: OwnedSid): SourceLocation => (s.entry.row !== undefined ? { file: input.file, row: s.entry.row, line: input.lineOf?.(s.entry.row) } : locateNode(s.node));
+  const locateSidAt = (i: number): SourceLocation => {
+    const t = views.packed.table;
+    const row = t.row[i]!;
+    return row > 0 ? { file: input.file, row, line: input.lineOf?.(row) } : locateNode(t.nodeNames[t.node[i]!]!);
+  };
 
   const findings: Finding[] = [];
   const rulesRun: string[] = [];
@@ -241,6 +246,7 @@ export function runLint(input: LintInput, rules: readonly Rule[], options: LintO
       },
       locateNode,
       locateSid,
+      locateSidAt,
       locatePlan,
       shared: (key, make) => views.shared(key, make),
       report(r: Report) {

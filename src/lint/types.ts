@@ -104,6 +104,11 @@ export interface RuleContext {
   locateNode(node: string): SourceLocation;
   /** Location of a SID (table row, or the node in the plan). */
   locateSid(s: OwnedSid): SourceLocation;
+  /**
+   * Location of SID `i` of the packed table (`ctx.packed.table`): its table row, or its node in
+   * the plan. Gives what locateSid gives for the same SID.
+   */
+  locateSidAt(i: number): SourceLocation;
   /** Location of a plan path (file only when there is no plan). */
   locatePlan(path: readonly (string | number)[]): SourceLocation;
   /**
