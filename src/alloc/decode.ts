@@ -23,17 +23,31 @@ export interface Decoded {
   readonly note: string;
 }
 
+/**
+ * The key of an address in the decoder's maps. Not the bigint itself: V8 hashes a bigint by its
+ * low 64 bits only, and SIDs of one plan differ mostly above bit 64, so a Map keyed by bigints
+ * puts them all in a few buckets and every lookup walks a long chain.
+ */
+const addrKey = (a: Addr) => a.toString(16);
+
 /** A lookup from address to decoded meaning, built once per allocation. */
 export class Decoder {
-  private readonly bySid = new Map<bigint, { node: string; sid: SidEntry }[]>();
+  private readonly bySid = new Map<string, { node: string; sid: SidEntry }[]>();
   private readonly byLocator = new Map<string, string[]>();
+  /** `depth|parent path|value` -> group path */
+  private readonly groupAt = new Map<string, { path: string; name: string }>();
 
   constructor(private readonly alloc: Allocation) {
+    for (const g of alloc.plan.groups) {
+      const v = alloc.groupValues.get(g.path);
+      if (v !== undefined) this.groupAt.set(`${g.depth}|${g.parent ?? ""}|${v.toString(16)}`, { path: g.path, name: g.name });
+    }
     for (const n of alloc.table.nodes) {
       for (const s of n.sids) {
-        const list = this.bySid.get(s.sid) ?? [];
-        list.push({ node: n.node, sid: s });
-        this.bySid.set(s.sid, list);
+        const k = addrKey(s.sid);
+        const list = this.bySid.get(k);
+        if (list) list.push({ node: n.node, sid: s });
+        else this.bySid.set(k, [{ node: n.node, sid: s }]);
       }
       for (const l of n.locators) {
         const k = l.prefix.format();
@@ -67,8 +81,8 @@ export class Decoder {
       let group: string | undefined;
       if (depth < plan.levels.length - 1) {
         const parent = path.join("/");
-        const g = plan.groups.find((x) => x.depth === depth && (x.parent ?? "") === parent && this.alloc.groupValues.get(x.path) === v);
-        if (g) {
+        const g = this.groupAt.get(`${depth}|${parent}|${v.toString(16)}`);
+        if (g !== undefined) {
           group = g.path;
           path.push(g.name);
         } else path.push("?");
@@ -79,7 +93,7 @@ export class Decoder {
     const locText = `${formatAddr(addr & (((1n << BigInt(locLen)) - 1n) << BigInt(128 - locLen)))}/${locLen}`;
     const owners = this.byLocator.get(locText) ?? [];
     const fn = getField(addr, locLen, L.functionBits);
-    const hits = this.bySid.get(addr) ?? [];
+    const hits = this.bySid.get(addrKey(addr)) ?? [];
     // A SID with a non-zero argument (End.DT2M, C-SID containers) is found by clearing the argument.
     let sidHit = hits[0];
     let argument: bigint = 0n;
@@ -87,7 +101,7 @@ export class Decoder {
     if (!sidHit) {
       for (const cand of [L.blockBits + L.nodeBits + L.functionBits, L.blockBits + L.nodeBits]) {
         const masked = addr & (((1n << BigInt(cand)) - 1n) << BigInt(128 - cand));
-        const h = this.bySid.get(masked);
+        const h = this.bySid.get(addrKey(masked));
         if (h && h[0]) {
           sidHit = h[0];
           // The argument is the field the SID's structure declares (e.g. 16 bits of Arg.FE2), not
