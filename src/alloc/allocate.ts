@@ -166,9 +166,13 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   const levelBits = plan.levels.reduce((s, l) => s + l.bits, 0);
 
   // which block serves a node for an algorithm
+  const blockCache = new Map<string, Block | undefined>();
   const blockFor = (place: string, algo: number): Block | undefined => {
-    const cands = plan.blocks.filter((b) => b.algorithms.includes(algo) && (b.groups.length === 0 || b.groups.some((g) => place === g || place.startsWith(g + "/"))));
-    return cands[0];
+    const k = `${algo}|${place}`;
+    if (blockCache.has(k)) return blockCache.get(k);
+    const b = plan.blocks.find((b) => b.algorithms.includes(algo) && (b.groups.length === 0 || b.groups.some((g) => place === g || place.startsWith(g + "/"))));
+    blockCache.set(k, b);
+    return b;
   };
   const nodeField = (b: Block, algo: number, hv: bigint) => (BigInt(b.algorithms.indexOf(algo)) << BigInt(levelBits)) | hv;
   /** A node value is usable when, in every compressed block it lands in, its C-SID is not 0 and lies in the GIB. */
@@ -195,11 +199,18 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     byPlace.get(e.place)!.push(e);
   }
   const placeOf = new Map(entities.map((e) => [e.id, e.place]));
+  // locked nodes by their locked place, so that each place looks only at its own
+  const lockedAt = new Map<string, [string, bigint][]>();
+  for (const [id, l] of lock.nodes) {
+    const list = lockedAt.get(l.place);
+    if (list) list.push([id, l.value]);
+    else lockedAt.set(l.place, [[id, l.value]]);
+  }
   for (const [place, list] of byPlace) {
     // Values of nodes that leave this place in this run (removed or moved) are retired below: no
     // new node may take them now.
     const leaving = new Set<bigint>();
-    for (const [id, l] of lock.nodes) if (l.place === place && placeOf.get(id) !== place) leaving.add(l.value);
+    for (const [id, v] of lockedAt.get(place) ?? []) if (placeOf.get(id) !== place) leaving.add(v);
     const items = list.map((e) => {
       const l = lock.nodes.get(e.id);
       let locked = l?.value;
@@ -282,14 +293,16 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       );
       const space = `${owner}|${algo}`;
       const taken = new Set<bigint>(retiredIn("function", space));
+      // each spec's lock key (made once per spec and algorithm: the loops below look it up several times)
+      const keys = specs.map((s) => lockKey(s, algo));
       // Values of this locator's SIDs that leave the plan in this run are retired below: keep them
       // out of pass 2 too, or a new SID would take a value the lock also lists as retired.
-      // each spec's lock key, made once per locator (the loops below look it up several times)
-      const keys = specs.map((s) => `${algo}|${s.key}`);
-      const specKeys = new Set(keys);
-      const algoPrefix = `${algo}|`;
-      for (const [k, v] of lockedFns) if (k.startsWith(algoPrefix) && !specKeys.has(k)) taken.add(v);
-      const pools = poolsFor(plan, L);
+      if (lockedFns.size > 0) {
+        const specKeys = new Set(keys);
+        const algoPrefix = `${algo}|`;
+        for (const [k, v] of lockedFns) if (!specKeys.has(k) && k.startsWith(algoPrefix)) taken.add(v);
+      }
+      const pools = cachedPools(plan, L);
       const fnMax = (1n << BigInt(L.functionBits)) - 1n;
       const fits = (v: bigint) => {
         if (v > fnMax || inRanges(v, plan.reservedFunctions)) return false;
@@ -402,14 +415,15 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
         taken.add(found);
         added++;
       }
-      // pool usage
+      // pool usage: how many chosen values fall in each pool (pools the plan names may overlap)
+      const used = new Map<PoolKind, bigint>();
+      for (const kind of POOL_KINDS) used.set(kind, 0n);
+      for (const v of chosen.values()) for (const kind of POOL_KINDS) if (inRanges(v, pools[kind])) used.set(kind, used.get(kind)! + 1n);
       for (const kind of POOL_KINDS) {
-        const pool = pools[kind];
-        let used = 0n;
-        for (const v of chosen.values()) if (inRanges(v, pool)) used++;
         const k = `${b.name}/${kind}`;
         const prev = poolMax.get(k);
-        if (!prev || used > prev.used) poolMax.set(k, { used, cap: rangeSize(pool), where: owner });
+        const u = used.get(kind)!;
+        if (!prev || u > prev.used) poolMax.set(k, { used: u, cap: prev?.cap ?? rangeSize(pools[kind]), where: owner });
       }
       // SIDs
       for (let si = 0; si < specs.length; si++) {
@@ -423,9 +437,9 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     }
     if (outFns.size > 0) functionsOut.set(owner, outFns);
     for (const [key, v] of lockedFns) {
-      if (!outFns.has(key) && !retiredNow.some((r) => r.kind === "function" && r.was === key && r.space === `${owner}|${key.split("|")[0]}`)) {
-        retiredNow.push({ kind: "function", space: `${owner}|${key.split("|")[0]}`, value: v, was: key });
-      }
+      if (outFns.has(key)) continue;
+      const space = `${owner}|${key.split("|")[0]}`;
+      if (!retiredNow.some((r) => r.kind === "function" && r.was === key && r.space === space)) retiredNow.push({ kind: "function", space, value: v, was: key });
     }
     return { locators, sids };
   };
@@ -610,6 +624,15 @@ function assignLevel(
   return out;
 }
 
+const lockKeys = new WeakMap<SidSpec, string[]>();
+
+/** The key of a SID in the lock: `algorithm|spec key`; made once per spec and algorithm (a million SIDs would otherwise build a million strings per run). */
+function lockKey(s: SidSpec, algo: number): string {
+  let byAlgo = lockKeys.get(s);
+  if (!byAlgo) lockKeys.set(s, (byAlgo = []));
+  return (byAlgo[algo] ??= `${algo}|${s.key}`);
+}
+
 /** What the allocator will create for one owner: the binding, its behaviour and pool. */
 interface SidSpec {
   readonly key: string;
@@ -623,8 +646,12 @@ interface SidSpec {
   readonly at: (string | number)[];
 }
 
-function endSpecs(plan: Plan, _algo: number): SidSpec[] {
-  return plan.endSids.map((f, i) => ({
+const endSpecCache = new WeakMap<Plan, readonly SidSpec[]>();
+
+function endSpecs(plan: Plan, _algo: number): readonly SidSpec[] {
+  const c = endSpecCache.get(plan);
+  if (c) return c;
+  const specs = plan.endSids.map((f, i) => ({
     key: `End|${normalizeFlavors(f).join("+") || "plain"}`,
     behavior: "End" as const,
     flavors: f,
@@ -635,6 +662,8 @@ function endSpecs(plan: Plan, _algo: number): SidSpec[] {
     context: {},
     at: ["end-sids", i],
   }));
+  endSpecCache.set(plan, specs);
+  return specs;
 }
 
 function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Diagnostic[]): Map<string, SidSpec[]> {
@@ -714,6 +743,17 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     for (const n of t.nodes) add(n, { key: `End.T|${t.name}`, behavior: "End.T", flavors: t.flavors, pool: "table", algorithm: 0, pinned: undefined, noFunction: false, context: { table: t.table !== undefined ? `${t.name}(${t.table})` : t.name }, at: ["tables", i] });
   });
   return out;
+}
+
+const poolCache = new WeakMap<Layout, { plan: Plan; pools: Record<PoolKind, ValueRange[]> }>();
+
+/** poolsFor, made once per plan and layout (the allocator asks for every locator). */
+function cachedPools(plan: Plan, L: Layout): Record<PoolKind, ValueRange[]> {
+  const c = poolCache.get(L);
+  if (c && c.plan === plan) return c.pools;
+  const pools = poolsFor(plan, L);
+  poolCache.set(L, { plan, pools });
+  return pools;
 }
 
 /**

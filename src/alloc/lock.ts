@@ -88,23 +88,47 @@ export function parseLock(text: string, file: string, planName: string): { ok: t
     if (data.plan !== planName) {
       return fail("lock/other-plan", `the lock belongs to plan ${JSON.stringify(data.plan)}, not to ${JSON.stringify(planName)}; point --lock at the right file; nothing was written`);
     }
-    const big = (s: unknown) => {
-      if (typeof s !== "string" || !/^0x[0-9a-f]+$/.test(s)) throw new Error(`bad value ${JSON.stringify(s)}`);
-      return BigInt(s);
-    };
-    const groups = new Map(Object.entries(data.groups ?? {}).map(([k, v]) => [k, big(v)]));
-    const nodes = new Map(Object.entries(data.nodes ?? {}).map(([k, v]: [string, any]) => [k, { place: String(v.place), value: big(v.value) }]));
-    const functions = new Map(
-      Object.entries(data.functions ?? {}).map(([k, v]) => [k, new Map(Object.entries(v as object).map(([kk, vv]) => [kk, big(vv)]))]),
-    );
+    const groups = new Map(Object.entries(data.groups ?? {}).map(([k, v]) => [k, lockValue(v)]));
+    const nodes = new Map(Object.entries(data.nodes ?? {}).map(([k, v]: [string, any]) => [k, { place: String(v.place), value: lockValue(v.value) }]));
+    const functions = new Map<string, Map<string, bigint>>();
+    for (const owner of Object.keys(data.functions ?? {})) {
+      const fns = data.functions[owner];
+      if (fns === null || typeof fns !== "object") throw new Error(`bad functions of ${JSON.stringify(owner)}`);
+      const m = new Map<string, bigint>();
+      for (const key of Object.keys(fns)) m.set(key, lockValue(fns[key]));
+      functions.set(owner, m);
+    }
     const retired: RetiredValue[] = ((data.retired ?? []) as any[]).map((r) => {
       if (!["group", "node", "function"].includes(r.kind)) throw new Error(`bad retired kind ${JSON.stringify(r.kind)}`);
-      return { kind: r.kind, space: String(r.space), value: big(r.value), was: String(r.was) };
+      return { kind: r.kind, space: String(r.space), value: lockValue(r.value), was: String(r.was) };
     });
     return { ok: true, lock: { plan: data.plan, layout: String(data.layout), groups, nodes, functions, retired } };
   } catch (e) {
     return fail("lock/schema", `the lock file is inconsistent (${(e as Error).message}); restore it from version control; nothing was written`);
   }
+}
+
+/** Bigints of the small values a lock mostly holds, made once (bigints are values: sharing them changes nothing). */
+const SMALL_VALUES: bigint[] = [];
+const SMALL_LIMIT = 1 << 16;
+
+/**
+ * A lock value: "0x" and lower-case hex digits, as serializeLock writes it. A loop over the
+ * characters instead of a regular expression and BigInt(text) per value: a large lock holds a
+ * million of them.
+ */
+export function lockValue(s: unknown): bigint {
+  if (typeof s !== "string" || s.length < 3 || s.charCodeAt(0) !== 0x30 || s.charCodeAt(1) !== 0x78) throw new Error(`bad value ${JSON.stringify(s)}`);
+  let n = 0;
+  for (let i = 2; i < s.length; i++) {
+    const c = s.charCodeAt(i);
+    const d = c >= 0x30 && c <= 0x39 ? c - 0x30 : c >= 0x61 && c <= 0x66 ? c - 0x57 : -1;
+    if (d < 0) throw new Error(`bad value ${JSON.stringify(s)}`);
+    n = n * 16 + d;
+  }
+  if (s.length > 2 + 13) return BigInt(s); // beyond 2^52 a double would round; the digits were checked above
+  if (n < SMALL_LIMIT) return (SMALL_VALUES[n] ??= BigInt(n));
+  return BigInt(n);
 }
 
 /**

@@ -63,6 +63,7 @@ class RowCache {
   private readonly locators = new WeakMap<Prefix, string>();
   private readonly flavors = new WeakMap<readonly string[], string>();
   private readonly texts = new Map<string, string>();
+  private readonly contexts = new WeakMap<SidContext, string>();
 
   cell(v: string): string {
     let c = this.texts.get(v);
@@ -83,14 +84,23 @@ class RowCache {
     return t;
   }
 
-  /** csvCell(formatContext(c)), without formatContext's intermediate arrays. */
+  /**
+   * csvCell(formatContext(c)), without formatContext's intermediate arrays; kept per context
+   * object, which the SIDs of one binding share (one per algorithm, anycast members).
+   */
   context(c: SidContext): string {
+    let t = this.contexts.get(c);
+    if (t !== undefined) return t;
     const keys = Object.keys(c);
-    if (keys.length === 0) return "";
-    keys.sort();
-    let t = `${keys[0]}=${c[keys[0]!]}`;
-    for (let i = 1; i < keys.length; i++) t += `;${keys[i]}=${c[keys[i]!]}`;
-    return csvCell(t);
+    if (keys.length === 0) t = "";
+    else {
+      if (keys.length > 1) keys.sort();
+      let text = `${keys[0]}=${c[keys[0]!]}`;
+      for (let i = 1; i < keys.length; i++) text += `;${keys[i]}=${c[keys[i]!]}`;
+      t = plainCell(text) ? text : csvCell(text);
+    }
+    this.contexts.set(c, t);
+    return t;
   }
 
   flavorCell(f: readonly string[]): string {
@@ -101,6 +111,20 @@ class RowCache {
     }
     return t;
   }
+}
+
+/**
+ * True when csvCell would return the text unchanged: no formula character first, no quote, comma
+ * or line break anywhere (a loop over char codes is cheaper than csvCell's two regular expressions).
+ */
+function plainCell(t: string): boolean {
+  const c0 = t.charCodeAt(0);
+  if (c0 === 0x3d || c0 === 0x2b || c0 === 0x2d || c0 === 0x40 || c0 === 0x09 || c0 === 0x0d) return false;
+  for (let i = 0; i < t.length; i++) {
+    const c = t.charCodeAt(i);
+    if (c === 0x22 || c === 0x2c || c === 0x0d || c === 0x0a) return false;
+  }
+  return true;
 }
 
 /**
