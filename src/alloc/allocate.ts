@@ -297,7 +297,11 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const keys = specs.map((s) => lockKey(s, algo));
       // Values of this locator's SIDs that leave the plan in this run are retired below: keep them
       // out of pass 2 too, or a new SID would take a value the lock also lists as retired.
-      if (lockedFns.size > 0) {
+      // When every locked key of this algorithm is one of this locator's keys, none leaves: count
+      // instead of building a set (the usual case, and a million SIDs deep).
+      let hits = 0;
+      for (const k of keys) if (lockedFns.has(k)) hits++;
+      if (hits < lockedCount(lockedFns, algo)) {
         const specKeys = new Set(keys);
         const algoPrefix = `${algo}|`;
         for (const [k, v] of lockedFns) if (!specKeys.has(k) && k.startsWith(algoPrefix)) taken.add(v);
@@ -622,6 +626,22 @@ function assignLevel(
     taken.add(found);
   }
   return out;
+}
+
+const lockedCounts = new WeakMap<ReadonlyMap<string, bigint>, Map<number, number>>();
+
+/** How many keys of an owner's locked functions belong to an algorithm (keys are `algorithm|...`). */
+function lockedCount(fns: ReadonlyMap<string, bigint>, algo: number): number {
+  let counts = lockedCounts.get(fns);
+  if (!counts) {
+    counts = new Map();
+    for (const k of fns.keys()) {
+      const a = Number(k.slice(0, k.indexOf("|")));
+      counts.set(a, (counts.get(a) ?? 0) + 1);
+    }
+    lockedCounts.set(fns, counts);
+  }
+  return counts.get(algo) ?? 0;
 }
 
 const lockKeys = new WeakMap<SidSpec, string[]>();

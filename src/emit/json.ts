@@ -1,6 +1,7 @@
 /**
  * SID tables as JSON, described by schemas/sid-table.schema.json (`sidcarve/sid-table/v1`).
  */
+import type { Prefix } from "../net/prefix.js";
 import { formatAddr } from "../net/text.js";
 import type { NodeTable, SidEntry, SidTable } from "../sid/table.js";
 import { CAUTION } from "./caution.js";
@@ -39,8 +40,9 @@ export function tableToJson(t: SidTable, nodes: readonly NodeTable[] = t.nodes):
 export function* jsonChunks(t: SidTable, nodes: readonly NodeTable[] = t.nodes): Generator<string> {
   yield `{\n  "schema": ${JSON.stringify(SID_TABLE_SCHEMA_ID)},\n  "plan": ${JSON.stringify(t.plan)},\n  "caution": ${JSON.stringify(CAUTION)},\n  "nodes": [`;
   let first = true;
+  const cache = new TextCache();
   for (const n of nodes) {
-    yield (first ? "\n    " : ",\n    ") + nodeText(n, "    ");
+    yield (first ? "\n    " : ",\n    ") + nodeText(n, "    ", cache);
     first = false;
   }
   yield first ? "]\n}\n" : "\n  ]\n}\n";
@@ -51,8 +53,19 @@ export function* jsonChunks(t: SidTable, nodes: readonly NodeTable[] = t.nodes):
 const str = (s: string) => JSON.stringify(s);
 const num = (n: number) => JSON.stringify(n);
 
+/**
+ * Texts that many SIDs share, made once per emitted document: locators, flavour lists and
+ * contexts are shared objects in an allocation. Every text depends on the indent too, which is
+ * the same for every SID of one document (one cache per document).
+ */
+class TextCache {
+  readonly locators = new WeakMap<Prefix, string>();
+  readonly flavors = new WeakMap<readonly string[], string>();
+  readonly contexts = new WeakMap<Readonly<Record<string, string>>, string | null>();
+}
+
 /** One node's entry as JSON.stringify(nodeJson(n), null, 2) would print it, lines after the first prefixed by `pad`. */
-function nodeText(n: NodeTable, pad: string): string {
+function nodeText(n: NodeTable, pad: string, cache: TextCache): string {
   const p1 = pad + "  ";
   const p2 = p1 + "  ";
   const p3 = p2 + "  ";
@@ -69,7 +82,7 @@ function nodeText(n: NodeTable, pad: string): string {
   if (n.sids.length === 0) out += "[]";
   else {
     out += "[";
-    for (let i = 0; i < n.sids.length; i++) out += `${i ? "," : ""}\n${p2}${sidText(n.sids[i]!, p2)}`;
+    for (let i = 0; i < n.sids.length; i++) out += `${i ? "," : ""}\n${p2}${sidText(n.sids[i]!, p2, cache)}`;
     out += `\n${p1}]`;
   }
   return out + `\n${pad}}`;
@@ -85,33 +98,57 @@ function contextKeys(c: Readonly<Record<string, string>>): string[] | undefined 
   return keys;
 }
 
-/** One SID as JSON.stringify(sidJson(s), null, 2) prints it, lines after the first prefixed by `pad`. */
-function sidText(s: SidEntry, pad: string): string {
-  const ctxKeys = contextKeys(s.context);
-  if (ctxKeys === undefined || typeof s.behavior !== "string" || !s.flavors.every((f) => typeof f === "string")) {
-    return JSON.stringify(sidJson(s), null, 2).replace(/\n/g, "\n" + pad);
+/** The context object's text at this indent, or null when it is unusual (then JSON.stringify prints the SID). */
+function contextText(c: Readonly<Record<string, string>>, p1: string, p2: string, cache: TextCache): string | null {
+  let t = cache.contexts.get(c);
+  if (t !== undefined) return t;
+  const ctxKeys = contextKeys(c);
+  if (ctxKeys === undefined) t = null;
+  else if (ctxKeys.length === 0) t = "{}";
+  else {
+    t = "{";
+    for (let i = 0; i < ctxKeys.length; i++) t += `${i ? "," : ""}\n${p2}${str(ctxKeys[i]!)}: ${str(c[ctxKeys[i]!]!)}`;
+    t += `\n${p1}}`;
   }
+  cache.contexts.set(c, t);
+  return t;
+}
+
+/** The flavour list's text at this indent, or null when an entry is not a string. */
+function flavorText(f: readonly string[], p1: string, p2: string, cache: TextCache): string | null {
+  let t = cache.flavors.get(f);
+  if (t !== undefined) return t;
+  if (!f.every((x) => typeof x === "string")) return null;
+  if (f.length === 0) t = "[]";
+  else {
+    t = "[";
+    f.forEach((x, i) => (t += `${i ? "," : ""}\n${p2}${str(x)}`));
+    t += `\n${p1}]`;
+  }
+  cache.flavors.set(f, t);
+  return t;
+}
+
+/** One SID as JSON.stringify(sidJson(s), null, 2) prints it, lines after the first prefixed by `pad`. */
+function sidText(s: SidEntry, pad: string, cache: TextCache): string {
   const p1 = pad + "  ";
   const p2 = p1 + "  ";
-  const st = s.structure;
-  let flv: string;
-  if (s.flavors.length === 0) flv = "[]";
-  else {
-    flv = "[";
-    s.flavors.forEach((f, i) => (flv += `${i ? "," : ""}\n${p2}${str(f)}`));
-    flv += `\n${p1}]`;
+  const ctx = contextText(s.context, p1, p2, cache);
+  const flv = ctx === null || typeof s.behavior !== "string" ? null : flavorText(s.flavors, p1, p2, cache);
+  if (ctx === null || flv === null) {
+    return JSON.stringify(sidJson(s), null, 2).replace(/\n/g, "\n" + pad);
   }
-  let ctx: string;
-  if (ctxKeys.length === 0) ctx = "{}";
-  else {
-    ctx = "{";
-    ctxKeys.forEach((k, i) => (ctx += `${i ? "," : ""}\n${p2}${str(k)}: ${str(s.context[k]!)}`));
-    ctx += `\n${p1}}`;
+  const st = s.structure;
+  let loc = "null";
+  if (s.locator) {
+    const known = cache.locators.get(s.locator);
+    if (known !== undefined) loc = known;
+    else cache.locators.set(s.locator, (loc = `"${s.locator.format()}"`));
   }
   return (
     // addresses, prefixes and hex numbers hold only [0-9a-f:./x], which JSON never escapes
     `{\n${p1}"sid": "${formatAddr(s.sid)}",\n${p1}"behavior": ${str(s.behavior)},\n${p1}"flavors": ${flv},\n${p1}"codepoint": ${s.codepoint === undefined ? "null" : num(s.codepoint)},` +
-    `\n${p1}"algorithm": ${num(s.algorithm)},\n${p1}"locator": ${s.locator ? `"${s.locator.format()}"` : "null"},\n${p1}"function": "0x${s.function.toString(16)}",` +
+    `\n${p1}"algorithm": ${num(s.algorithm)},\n${p1}"locator": ${loc},\n${p1}"function": "0x${s.function.toString(16)}",` +
     `\n${p1}"structure": ${st ? `{\n${p2}"block": ${num(st.block)},\n${p2}"node": ${num(st.node)},\n${p2}"function": ${num(st.function)},\n${p2}"argument": ${num(st.argument)}\n${p1}}` : "null"},` +
     `\n${p1}"context": ${ctx}\n${pad}}`
   );
