@@ -6,6 +6,7 @@ import { Ajv2020 } from "ajv/dist/2020.js";
 import type { ErrorObject, ValidateFunction } from "ajv";
 import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode, type Document } from "yaml";
 import { type Diagnostic, type SourceLocation, quote } from "./diagnostic.js";
+import { fastParse } from "./fast-yaml.js";
 import { PLAN_SCHEMA } from "./schema.js";
 
 /**
@@ -87,8 +88,13 @@ export function firstInvalidUtf8(b: Uint8Array): number {
   return -1;
 }
 
+/** How to parse: `fast: false` skips the fast reader (to compare against the full path). */
+export interface ParseOptions {
+  readonly fast?: boolean;
+}
+
 /** Parse YAML or JSON text, keeping positions. Syntax errors, duplicate keys and alias bombs become diagnostics. */
-export function parseSource(text: string, file: string): SourceResult {
+export function parseSource(text: string, file: string, options: ParseOptions = {}): SourceResult {
   if (text.length > MAX_SOURCE_CHARS) {
     return { ok: false, diagnostics: [{ code: "input/too-large", message: `the file has ${text.length} characters; at most ${MAX_SOURCE_CHARS} are read`, location: { file } }] };
   }
@@ -100,6 +106,25 @@ export function parseSource(text: string, file: string): SourceResult {
   if (text.trim() === "") {
     return { ok: false, diagnostics: [{ code: "input/empty", message: "the file is empty; a plan needs at least sidcarve, plan, blocks, levels and nodes", location: { file, line: 1, column: 1 } }] };
   }
+  // fastParse gives up on nesting deeper than MAX_DEPTH, so its data needs no depth check: the
+  // full path below reports such text (walking 26 MB of plan data would cost tens of ms).
+  const data = options.fast === false ? undefined : fastParse(text, MAX_DEPTH);
+  if (data === undefined) return parseFull(text, file);
+  // Positions are needed only for diagnostics: the full parse runs on the first call, once.
+  let full: Locator | undefined;
+  const locate: Locator = (path, opts) => {
+    if (!full) {
+      const r = parseFull(text, file);
+      // cannot fail when the fast reader accepted the text; stay located at the file if it does
+      full = r.ok ? r.locate : (p) => ({ file, path: [...p] });
+    }
+    return full(path, opts);
+  };
+  return { ok: true, data, locate };
+}
+
+/** The yaml library's parse, with a LineCounter for positions: every input that fastParse leaves alone. */
+function parseFull(text: string, file: string): SourceResult {
   const lineCounter = new LineCounter();
   let doc: Document.Parsed;
   try {
