@@ -252,7 +252,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
 
   // ---- SIDs, locator by locator
   const nodeByName = new Map(plan.nodes.map((n) => [n.name, n]));
-  const functionsOut = new Map<string, Map<string, bigint>>();
+  const functionsOut = new Map<string, ReadonlyMap<string, bigint>>();
   const tables: NodeTable[] = [];
   const poolMax = new Map<string, { used: bigint; cap: bigint; where: string }>();
   let added = 0;
@@ -273,7 +273,12 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     const sids: SidEntry[] = [];
     const hv = nodeValues.get(owner)!;
     const lockedFns = lock.functions.get(owner) ?? new Map<string, bigint>();
-    const outFns = new Map<string, bigint>();
+    // the owner's functions for the new lock, in SID order; when they are the locked ones to the
+    // letter (a run against an up-to-date lock), the locked map itself is kept
+    const outKeys: string[] = [];
+    const outValues: bigint[] = [];
+    let sameAsLocked = true;
+    let lockedPerAlgo: Map<number, number> | undefined;
     for (const algo of algos) {
       const b = blockFor(place, algo);
       if (!b) {
@@ -301,7 +306,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       // instead of building a set (the usual case, and a million SIDs deep).
       let hits = 0;
       for (const k of keys) if (lockedFns.has(k)) hits++;
-      if (hits < lockedCount(lockedFns, algo)) {
+      if (hits < ((lockedPerAlgo ??= lockedCounts(lockedFns)).get(algo) ?? 0)) {
         const specKeys = new Set(keys);
         const algoPrefix = `${algo}|`;
         for (const [k, v] of lockedFns) if (!specKeys.has(k) && k.startsWith(algoPrefix)) taken.add(v);
@@ -435,12 +440,23 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
         const key = keys[si]!;
         const fn = s.noFunction ? 0n : chosen.get(key);
         if (fn === undefined) continue;
-        if (!s.noFunction) outFns.set(key, fn);
+        if (!s.noFunction) {
+          outKeys.push(key);
+          outValues.push(fn);
+          if (sameAsLocked && lockedFns.get(key) !== fn) sameAsLocked = false;
+        }
         sids.push(makeSid(b, L, locator, locFirst, algo, s, fn, key));
       }
     }
+    let outFns: ReadonlyMap<string, bigint>;
+    if (sameAsLocked && outKeys.length === lockedFns.size) outFns = lockedFns;
+    else {
+      const m = new Map<string, bigint>();
+      for (let i = 0; i < outKeys.length; i++) m.set(outKeys[i]!, outValues[i]!);
+      outFns = m;
+    }
     if (outFns.size > 0) functionsOut.set(owner, outFns);
-    for (const [key, v] of lockedFns) {
+    if (outFns !== lockedFns) for (const [key, v] of lockedFns) {
       if (outFns.has(key)) continue;
       const space = `${owner}|${key.split("|")[0]}`;
       if (!retiredNow.some((r) => r.kind === "function" && r.was === key && r.space === space)) retiredNow.push({ kind: "function", space, value: v, was: key });
@@ -628,28 +644,24 @@ function assignLevel(
   return out;
 }
 
-const lockedCounts = new WeakMap<ReadonlyMap<string, bigint>, Map<number, number>>();
-
-/** How many keys of an owner's locked functions belong to an algorithm (keys are `algorithm|...`). */
-function lockedCount(fns: ReadonlyMap<string, bigint>, algo: number): number {
-  let counts = lockedCounts.get(fns);
-  if (!counts) {
-    counts = new Map();
-    for (const k of fns.keys()) {
-      const a = Number(k.slice(0, k.indexOf("|")));
-      counts.set(a, (counts.get(a) ?? 0) + 1);
-    }
-    lockedCounts.set(fns, counts);
+/** How many keys of an owner's locked functions belong to each algorithm (keys are `algorithm|...`). */
+function lockedCounts(fns: ReadonlyMap<string, bigint>): Map<number, number> {
+  const counts = new Map<number, number>();
+  for (const k of fns.keys()) {
+    const a = Number(k.slice(0, k.indexOf("|")));
+    counts.set(a, (counts.get(a) ?? 0) + 1);
   }
-  return counts.get(algo) ?? 0;
+  return counts;
 }
 
-const lockKeys = new WeakMap<SidSpec, string[]>();
-
-/** The key of a SID in the lock: `algorithm|spec key`; made once per spec and algorithm (a million SIDs would otherwise build a million strings per run). */
+/**
+ * The key of a SID in the lock: `algorithm|spec key`. A spec of one algorithm carries it, made
+ * when the spec is; the End specs, shared by every node and algorithm, keep theirs per
+ * algorithm. (Not a WeakMap over a million specs: its entries cost the garbage collector dearly.)
+ */
 function lockKey(s: SidSpec, algo: number): string {
-  let byAlgo = lockKeys.get(s);
-  if (!byAlgo) lockKeys.set(s, (byAlgo = []));
+  if (s.lockKey !== undefined && s.algorithm === algo) return s.lockKey;
+  const byAlgo = (s.lockKeys ??= []);
   return (byAlgo[algo] ??= `${algo}|${s.key}`);
 }
 
@@ -664,7 +676,14 @@ interface SidSpec {
   readonly noFunction: boolean;
   readonly context: SidContext;
   readonly at: (string | number)[];
+  /** `algorithm|key` when the spec has one algorithm (see lockKey). */
+  lockKey?: string;
+  /** lockKey's per-algorithm keys for specs of every algorithm. */
+  lockKeys?: string[];
 }
+
+/** The flavour list of the service SIDs, shared (flavour lists are never changed once made). */
+const NO_FLAVORS: readonly Flavor[] = Object.freeze([]);
 
 const endSpecCache = new WeakMap<Plan, readonly SidSpec[]>();
 
@@ -688,9 +707,12 @@ function endSpecs(plan: Plan, _algo: number): readonly SidSpec[] {
 
 function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Diagnostic[]): Map<string, SidSpec[]> {
   const out = new Map<string, SidSpec[]>();
+  // a spec may be shared by several nodes (a VRF's PEs); its lock key is the same for all of them
   const add = (node: string, s: SidSpec) => {
-    if (!out.has(node)) out.set(node, []);
-    out.get(node)!.push(s);
+    if (s.algorithm !== undefined) s.lockKey ??= `${s.algorithm}|${s.key}`;
+    const list = out.get(node);
+    if (list) list.push(s);
+    else out.set(node, [s]);
   };
   for (const n of plan.nodes) for (const s of endSpecs(plan, 0)) add(n.name, s);
   const seen = new Set<string>();
@@ -713,6 +735,9 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
         }
         seen.add(`${me.node}|${key}`);
         const pinned = prot === "protected" && variants.length === 2 ? me.pinnedProtected : prot === "protected" ? (me.pinnedProtected ?? me.pinned) : me.pinned;
+        // one context and plan path for the adjacency, shared by its SIDs of every algorithm
+        const context = { neighbor: peer.node, ...(me.iface ? { interface: me.iface } : {}), protection: prot, link: l.name };
+        const at = ["links", l.index, "ends", l.ends.indexOf(me)];
         for (const algo of algos) {
           add(me.node, {
             key,
@@ -722,8 +747,8 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
             algorithm: algo,
             pinned,
             noFunction: false,
-            context: { neighbor: peer.node, ...(me.iface ? { interface: me.iface } : {}), protection: prot, link: l.name },
-            at: ["links", l.index, "ends", l.ends.indexOf(me)],
+            context,
+            at,
           });
         }
       }
@@ -733,34 +758,36 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     const fams = v.families;
     const behaviors: { b: BehaviorName; fam: string }[] =
       fams.length === 2 && v.mode === "combined" ? [{ b: "End.DT46", fam: "ipv4+ipv6" }] : fams.map((f) => ({ b: f === "ipv4" ? ("End.DT4" as const) : ("End.DT6" as const), fam: f }));
-    for (const pe of v.pes) {
-      for (const { b, fam } of behaviors) {
-        add(pe, { key: `${b}|${v.name}`, behavior: b, flavors: [], pool: "service", algorithm: v.algorithm, pinned: undefined, noFunction: false, context: { vrf: v.name, family: fam, ...(v.table !== undefined ? { table: String(v.table) } : {}) }, at: ["vrfs", i] });
-      }
-    }
+    // one spec per VRF and behaviour, shared by all its PEs (specs are never changed once made)
+    const specs = behaviors.map(({ b, fam }): SidSpec => ({ key: `${b}|${v.name}`, behavior: b, flavors: NO_FLAVORS, pool: "service", algorithm: v.algorithm, pinned: undefined, noFunction: false, context: { vrf: v.name, family: fam, ...(v.table !== undefined ? { table: String(v.table) } : {}) }, at: ["vrfs", i] }));
+    for (const pe of v.pes) for (const spec of specs) add(pe, spec);
     v.ces.forEach((c, j) => {
       const b: BehaviorName = c.family === "ipv4" ? "End.DX4" : "End.DX6";
-      add(c.pe, { key: `${b}|${v.name}|${c.name}`, behavior: b, flavors: [], pool: "service", algorithm: v.algorithm, pinned: undefined, noFunction: false, context: { vrf: v.name, ce: c.name, family: c.family, ...(c.iface ? { interface: c.iface } : {}) }, at: ["vrfs", i, "ces", j] });
+      add(c.pe, { key: `${b}|${v.name}|${c.name}`, behavior: b, flavors: NO_FLAVORS, pool: "service", algorithm: v.algorithm, pinned: undefined, noFunction: false, context: { vrf: v.name, ce: c.name, family: c.family, ...(c.iface ? { interface: c.iface } : {}) }, at: ["vrfs", i, "ces", j] });
     });
   });
   plan.l2.forEach((s, i) => {
     if (s.kind === "bridge") {
+      const context = { "bridge-domain": s.name };
+      const unicast: SidSpec = { key: `End.DT2U|${s.name}`, behavior: "End.DT2U", flavors: NO_FLAVORS, pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context, at: ["l2-services", i] };
+      const multicast: SidSpec = { key: `End.DT2M|${s.name}`, behavior: "End.DT2M", flavors: NO_FLAVORS, pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context, at: ["l2-services", i] };
       for (const n of s.nodes) {
-        add(n, { key: `End.DT2U|${s.name}`, behavior: "End.DT2U", flavors: [], pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context: { "bridge-domain": s.name }, at: ["l2-services", i] });
-        add(n, { key: `End.DT2M|${s.name}`, behavior: "End.DT2M", flavors: [], pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context: { "bridge-domain": s.name }, at: ["l2-services", i] });
+        add(n, unicast);
+        add(n, multicast);
       }
     } else {
       const b: BehaviorName = s.kind === "wire" ? "End.DX2" : "End.DX2V";
       s.attachments.forEach((a, j) => {
-        add(a.node, { key: `${b}|${s.name}|${a.iface ?? ""}|${a.vlan ?? ""}`, behavior: b, flavors: [], pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context: { service: s.name, ...(a.iface ? { interface: a.iface } : {}), ...(a.vlan !== undefined ? { vlan: String(a.vlan) } : {}) }, at: ["l2-services", i, "attachments", j] });
+        add(a.node, { key: `${b}|${s.name}|${a.iface ?? ""}|${a.vlan ?? ""}`, behavior: b, flavors: NO_FLAVORS, pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context: { service: s.name, ...(a.iface ? { interface: a.iface } : {}), ...(a.vlan !== undefined ? { vlan: String(a.vlan) } : {}) }, at: ["l2-services", i, "attachments", j] });
       });
     }
   });
   plan.policies.forEach((p, i) => {
-    add(p.node, { key: `${p.behavior}|${p.name}`, behavior: p.behavior, flavors: [], pool: "binding", algorithm: p.algorithm, pinned: undefined, noFunction: false, context: { policy: p.name, ...(p.endpoint ? { endpoint: p.endpoint } : {}), ...(p.color !== undefined ? { color: String(p.color) } : {}) }, at: ["policies", i] });
+    add(p.node, { key: `${p.behavior}|${p.name}`, behavior: p.behavior, flavors: NO_FLAVORS, pool: "binding", algorithm: p.algorithm, pinned: undefined, noFunction: false, context: { policy: p.name, ...(p.endpoint ? { endpoint: p.endpoint } : {}), ...(p.color !== undefined ? { color: String(p.color) } : {}) }, at: ["policies", i] });
   });
   plan.tables.forEach((t, i) => {
-    for (const n of t.nodes) add(n, { key: `End.T|${t.name}`, behavior: "End.T", flavors: t.flavors, pool: "table", algorithm: 0, pinned: undefined, noFunction: false, context: { table: t.table !== undefined ? `${t.name}(${t.table})` : t.name }, at: ["tables", i] });
+    const spec: SidSpec = { key: `End.T|${t.name}`, behavior: "End.T", flavors: t.flavors, pool: "table", algorithm: 0, pinned: undefined, noFunction: false, context: { table: t.table !== undefined ? `${t.name}(${t.table})` : t.name }, at: ["tables", i] };
+    for (const n of t.nodes) add(n, spec);
   });
   return out;
 }

@@ -63,7 +63,6 @@ class RowCache {
   private readonly locators = new WeakMap<Prefix, string>();
   private readonly flavors = new WeakMap<readonly string[], string>();
   private readonly texts = new Map<string, string>();
-  private readonly contexts = new WeakMap<SidContext, string>();
 
   cell(v: string): string {
     let c = this.texts.get(v);
@@ -85,22 +84,17 @@ class RowCache {
   }
 
   /**
-   * csvCell(formatContext(c)), without formatContext's intermediate arrays; kept per context
-   * object, which the SIDs of one binding share (one per algorithm, anycast members).
+   * csvCell(formatContext(c)), without formatContext's intermediate arrays. Not cached: most
+   * contexts belong to one or two SIDs, and a WeakMap over a million of them costs the garbage
+   * collector more than formatting does.
    */
   context(c: SidContext): string {
-    let t = this.contexts.get(c);
-    if (t !== undefined) return t;
     const keys = Object.keys(c);
-    if (keys.length === 0) t = "";
-    else {
-      if (keys.length > 1) keys.sort();
-      let text = `${keys[0]}=${c[keys[0]!]}`;
-      for (let i = 1; i < keys.length; i++) text += `;${keys[i]}=${c[keys[i]!]}`;
-      t = plainCell(text) ? text : csvCell(text);
-    }
-    this.contexts.set(c, t);
-    return t;
+    if (keys.length === 0) return "";
+    if (keys.length > 1) keys.sort();
+    let text = `${keys[0]}=${c[keys[0]!]}`;
+    for (let i = 1; i < keys.length; i++) text += `;${keys[i]}=${c[keys[i]!]}`;
+    return plainCell(text) ? text : csvCell(text);
   }
 
   flavorCell(f: readonly string[]): string {

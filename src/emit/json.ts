@@ -54,14 +54,13 @@ const str = (s: string) => JSON.stringify(s);
 const num = (n: number) => JSON.stringify(n);
 
 /**
- * Texts that many SIDs share, made once per emitted document: locators, flavour lists and
- * contexts are shared objects in an allocation. Every text depends on the indent too, which is
+ * Texts that many SIDs share, made once per emitted document: locators and flavour lists are
+ * shared objects in an allocation. Every text depends on the indent too, which is
  * the same for every SID of one document (one cache per document).
  */
 class TextCache {
   readonly locators = new WeakMap<Prefix, string>();
   readonly flavors = new WeakMap<readonly string[], string>();
-  readonly contexts = new WeakMap<Readonly<Record<string, string>>, string | null>();
 }
 
 /** One node's entry as JSON.stringify(nodeJson(n), null, 2) would print it, lines after the first prefixed by `pad`. */
@@ -98,20 +97,17 @@ function contextKeys(c: Readonly<Record<string, string>>): string[] | undefined 
   return keys;
 }
 
-/** The context object's text at this indent, or null when it is unusual (then JSON.stringify prints the SID). */
-function contextText(c: Readonly<Record<string, string>>, p1: string, p2: string, cache: TextCache): string | null {
-  let t = cache.contexts.get(c);
-  if (t !== undefined) return t;
+/**
+ * The context object's text at this indent, or null when it is unusual (then JSON.stringify
+ * prints the SID). Not cached: most contexts belong to one or two SIDs (see RowCache in csv.ts).
+ */
+function contextText(c: Readonly<Record<string, string>>, p1: string, p2: string): string | null {
   const ctxKeys = contextKeys(c);
-  if (ctxKeys === undefined) t = null;
-  else if (ctxKeys.length === 0) t = "{}";
-  else {
-    t = "{";
-    for (let i = 0; i < ctxKeys.length; i++) t += `${i ? "," : ""}\n${p2}${str(ctxKeys[i]!)}: ${str(c[ctxKeys[i]!]!)}`;
-    t += `\n${p1}}`;
-  }
-  cache.contexts.set(c, t);
-  return t;
+  if (ctxKeys === undefined) return null;
+  if (ctxKeys.length === 0) return "{}";
+  let t = "{";
+  for (let i = 0; i < ctxKeys.length; i++) t += `${i ? "," : ""}\n${p2}${str(ctxKeys[i]!)}: ${str(c[ctxKeys[i]!]!)}`;
+  return t + `\n${p1}}`;
 }
 
 /** The flavour list's text at this indent, or null when an entry is not a string. */
@@ -133,7 +129,7 @@ function flavorText(f: readonly string[], p1: string, p2: string, cache: TextCac
 function sidText(s: SidEntry, pad: string, cache: TextCache): string {
   const p1 = pad + "  ";
   const p2 = p1 + "  ";
-  const ctx = contextText(s.context, p1, p2, cache);
+  const ctx = contextText(s.context, p1, p2);
   const flv = ctx === null || typeof s.behavior !== "string" ? null : flavorText(s.flavors, p1, p2, cache);
   if (ctx === null || flv === null) {
     return JSON.stringify(sidJson(s), null, 2).replace(/\n/g, "\n" + pad);
