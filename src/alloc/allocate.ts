@@ -715,7 +715,8 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     else out.set(node, [s]);
   };
   for (const n of plan.nodes) for (const s of endSpecs(plan, 0)) add(n.name, s);
-  const seen = new Set<string>();
+  // adjacency keys per node, to tell parallel links apart
+  const seen = new Map<string, Set<string>>();
   for (const l of plan.links) {
     const [a, b] = l.ends;
     const na = nodes.get(a.node);
@@ -729,11 +730,13 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     ] as const) {
       for (const prot of variants) {
         const key = `End.X|${peer.node}|${me.iface ?? ""}|${prot}`;
-        if (seen.has(`${me.node}|${key}`)) {
+        let mine = seen.get(me.node);
+        if (!mine) seen.set(me.node, (mine = new Set()));
+        if (mine.has(key)) {
           diags.push({ code: "plan/parallel-link", message: `two links join ${quote(me.node)} and ${quote(peer.node)} without telling them apart; give each an interface on both ends`, location: plan.locate(["links", l.index]) });
           continue;
         }
-        seen.add(`${me.node}|${key}`);
+        mine.add(key);
         const pinned = prot === "protected" && variants.length === 2 ? me.pinnedProtected : prot === "protected" ? (me.pinnedProtected ?? me.pinned) : me.pinned;
         // one context and plan path for the adjacency, shared by its SIDs of every algorithm
         const context = { neighbor: peer.node, ...(me.iface ? { interface: me.iface } : {}), protection: prot, link: l.name };
