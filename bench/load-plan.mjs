@@ -1,5 +1,6 @@
 // Times the stages of loading one plan: UTF-8 decoding, parsing, schema validation and
-// normalisation, then the whole of loadPlanBytes. Uses the library in dist/ (run `npm run build`).
+// normalisation, then the whole of loadPlanBytes, and locating paths (the first call, then 1000
+// more, as diagnostics do). Uses the library in dist/ (run `npm run build`).
 //   node bench/load-plan.mjs [PLAN] [--runs N] [--full]
 // --full parses with the yaml library alone (the path every plan took before the fast reader).
 import { readFileSync } from "node:fs";
@@ -34,5 +35,12 @@ for (let r = 0; r < runs; r++) {
   const whole = loadPlanBytes(bytes, file, options);
   const t5 = performance.now();
   if (errors.length > 0 || !n.ok || !whole.ok) throw new Error(`${file} did not load`);
-  console.log(JSON.stringify({ run: r + 1, decode: ms(t1 - t0), parse: ms(t2 - t1), validate: ms(t3 - t2), normalize: ms(t4 - t3), loadPlanBytes: ms(t5 - t4), rssMB: Math.round(process.memoryUsage().rss / 1e6) }));
+  // a valid plan has no diagnostics, so this is the first call of the locator
+  const nodes = Array.isArray(src.data.nodes) ? src.data.nodes.length : 1;
+  const t6 = performance.now();
+  src.locate(["nodes", nodes - 1, "name"]);
+  const t7 = performance.now();
+  for (let i = 0; i < 1000; i++) src.locate(["nodes", (i * 7919) % nodes, i % 2 ? "name" : "no-such-key"], { key: i % 3 === 0 });
+  const t8 = performance.now();
+  console.log(JSON.stringify({ run: r + 1, decode: ms(t1 - t0), parse: ms(t2 - t1), validate: ms(t3 - t2), normalize: ms(t4 - t3), loadPlanBytes: ms(t5 - t4), firstLocate: +(t7 - t6).toFixed(1), locate1000: +(t8 - t7).toFixed(1), rssMB: Math.round(process.memoryUsage().rss / 1e6) }));
 }

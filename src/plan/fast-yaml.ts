@@ -6,6 +6,10 @@
  * `parseDocument(text, { uniqueKeys: true, strict: true }).toJS()` gives, or `undefined` when the
  * text is outside the subset or it is not sure, so that the caller falls back to the library.
  * Bailing out is always safe; a wrong value would be a bug.
+ *
+ * While reading, it also records where every mapping key and value and every list item starts
+ * (the offsets the library's node ranges give), so that a caller can locate any path in the
+ * data without the library: see FastPositions.
  */
 
 /** Thrown (and caught in fastParse) to give up on the text. */
@@ -95,19 +99,130 @@ export function resolvePlain(s: string): unknown {
  * (a top-level mapping is depth 1) also give `undefined`, so a result is never deeper.
  */
 export function fastParse(text: string, maxDepth = 128): unknown | undefined {
+  return fastParseWithPositions(text, maxDepth)?.data;
+}
+
+/** fastParse, with the start of every key, value and item kept for locating paths. */
+export function fastParseWithPositions(text: string, maxDepth = 128): { data: unknown; positions: FastPositions } | undefined {
   if (BAD_CHARS.test(text)) return undefined;
-  // Positions are never reported from here, and no scalar spans lines, so CRLF can go.
+  // No scalar spans lines, and a CR only ever comes right before a LF (BAD_CHARS), so dropping
+  // it moves no position within its line: lines and columns stay those of the text as given.
   if (text.includes("\r")) text = text.replace(/\r\n/g, "\n");
+  const reader = new Reader(text, maxDepth);
+  let data: unknown;
   try {
-    return new Reader(text, maxDepth).document();
+    data = reader.document();
   } catch (e) {
     if (e === BAIL) return undefined;
     throw e;
   }
+  return { data, positions: new FastPositions(text, reader.pool.slice(0, reader.poolLen), reader.ref) };
 }
 
 function bail(): never {
   throw BAIL;
+}
+
+/** Kinds of collection records (the low two bits of a record's header). */
+const BLOCK_MAP = 0;
+const FLOW_MAP = 1;
+const SEQ = 2;
+
+/**
+ * Where the nodes of a text that fastParse read start, as offsets into the text (with CRLF
+ * turned into LF, which leaves every line and column as it was). A node is named by a `ref`: its
+ * offset when it is a scalar, `-(base + 1)` when it is a collection. A collection's record in
+ * `pool` is `[count * 4 + kind, start, ...]` followed, for a mapping, by `keyStart, valueRef`
+ * per entry and, for a list, by `itemRef` per item, in the order of the text. That is 8 bytes per
+ * mapping entry and 4 per list item; keys are not kept but read again from the text when a
+ * path goes through their mapping.
+ */
+export class FastPositions {
+  private lineStarts: Int32Array | undefined;
+  private keyReader: Reader | undefined;
+  /** Key -> entry index, for the larger mappings that a path has gone through. */
+  private readonly keyIndex = new Map<number, Map<string, number>>();
+
+  constructor(
+    private readonly text: string,
+    private readonly pool: Int32Array,
+    /** The document's root node. */
+    readonly root: number,
+  ) {}
+
+  kind(ref: number): "map" | "seq" | "scalar" {
+    if (ref >= 0) return "scalar";
+    return (this.pool[-ref - 1]! & 3) === SEQ ? "seq" : "map";
+  }
+
+  /** Number of entries or items of a collection. */
+  count(ref: number): number {
+    return ref >= 0 ? 0 : this.pool[-ref - 1]! >>> 2;
+  }
+
+  /** Where the node starts (the library's `range[0]`). */
+  start(ref: number): number {
+    return ref >= 0 ? ref : this.pool[-ref]!;
+  }
+
+  /** The index of the entry with this key in a mapping, or -1. */
+  entry(map: number, key: string): number {
+    const base = -map - 1;
+    const n = this.pool[base]! >>> 2;
+    const flow = (this.pool[base]! & 3) === FLOW_MAP;
+    this.keyReader ??= new Reader(this.text, 0, false);
+    const r = this.keyReader;
+    if (n <= 8) {
+      for (let i = 0; i < n; i++) if (r.keyAt(this.pool[base + 2 + 2 * i]!, flow) === key) return i;
+      return -1;
+    }
+    let index = this.keyIndex.get(base);
+    if (!index) {
+      index = new Map();
+      for (let i = 0; i < n; i++) index.set(r.keyAt(this.pool[base + 2 + 2 * i]!, flow), i);
+      this.keyIndex.set(base, index);
+    }
+    return index.get(key) ?? -1;
+  }
+
+  /** Where the key of entry `i` of a mapping starts. */
+  keyStart(map: number, i: number): number {
+    return this.pool[-map + 1 + 2 * i]!;
+  }
+
+  /** The value of entry `i` of a mapping. */
+  value(map: number, i: number): number {
+    return this.pool[-map + 2 + 2 * i]!;
+  }
+
+  /** Item `i` of a list. */
+  item(seq: number, i: number): number {
+    return this.pool[-seq + 1 + i]!;
+  }
+
+  /** 1-based line and column (in UTF-16 code units) of an offset, as the library's LineCounter.linePos gives them. */
+  linePos(offset: number): { line: number; col: number } {
+    const starts = (this.lineStarts ??= lineStartsOf(this.text));
+    let lo = 0;
+    let hi = starts.length - 1;
+    // the last line that starts at or before the offset
+    while (lo < hi) {
+      const mid = (lo + hi + 1) >> 1;
+      if (starts[mid]! <= offset) lo = mid;
+      else hi = mid - 1;
+    }
+    return { line: lo + 1, col: offset - starts[lo]! + 1 };
+  }
+}
+
+/** Offsets at which the lines of a text start: 0 and after every LF. */
+function lineStartsOf(s: string): Int32Array {
+  let n = 1;
+  for (let i = s.indexOf("\n"); i >= 0; i = s.indexOf("\n", i + 1)) n++;
+  const starts = new Int32Array(n);
+  let k = 1;
+  for (let i = s.indexOf("\n"); i >= 0; i = s.indexOf("\n", i + 1)) starts[k++] = i + 1;
+  return starts;
 }
 
 class Reader {
@@ -119,12 +234,74 @@ class Reader {
   private flowDepth = 0;
   private outerClose = 0;
   private readonly n: number;
+  /**
+   * Positions (see FastPositions for the layout). Every node sets `ref` as it ends: its offset
+   * when it is a scalar, `-(base + 1)` when it is a collection whose record starts at `pool[base]`.
+   * A collection collects its record on the `open` stack (its children's records are pushed
+   * above it and moved out as they end) and moves it to `pool` when it ends, so that every
+   * record is contiguous.
+   */
+  ref = 0;
+  pool: Int32Array;
+  poolLen = 0;
+  private open = new Int32Array(256);
+  private openLen = 0;
 
   constructor(
     private readonly s: string,
     private readonly maxDepth: number,
+    records = true,
   ) {
     this.n = s.length;
+    // a plan in block and flow style needs a little more than one number per 8 characters
+    this.pool = new Int32Array(records ? Math.max(64, this.n >> 3) : 0);
+  }
+
+  private push(v: number): void {
+    if (this.openLen === this.open.length) this.growOpen();
+    this.open[this.openLen++] = v;
+  }
+
+  /** Two numbers at once: a mapping entry, or a record's header and start. */
+  private push2(a: number, b: number): void {
+    if (this.openLen + 2 > this.open.length) this.growOpen();
+    const o = this.open;
+    const i = this.openLen;
+    o[i] = a;
+    o[i + 1] = b;
+    this.openLen = i + 2;
+  }
+
+  private growOpen(): void {
+    const o = new Int32Array(this.open.length * 2);
+    o.set(this.open);
+    this.open = o;
+  }
+
+  /** Start the record of a collection that starts at `offset`; returns its mark on the stack. */
+  private openRecord(offset: number): number {
+    const mark = this.openLen;
+    this.push2(0, offset);
+    return mark;
+  }
+
+  /** Move the record opened at `mark` to the pool, with its header; sets `ref` to it. */
+  private closeRecord(mark: number, kind: number, count: number): void {
+    const len = this.openLen - mark;
+    this.open[mark] = count * 4 + kind;
+    if (this.poolLen + len > this.pool.length) {
+      const p = new Int32Array(Math.max(Math.ceil(this.pool.length * 1.5), this.poolLen + len));
+      p.set(this.pool.subarray(0, this.poolLen));
+      this.pool = p;
+    }
+    const base = this.poolLen;
+    const pool = this.pool;
+    const open = this.open;
+    if (len <= 16) for (let i = 0; i < len; i++) pool[base + i] = open[mark + i]!;
+    else pool.set(open.subarray(mark, this.openLen), base);
+    this.poolLen += len;
+    this.openLen = mark;
+    this.ref = -(base + 1);
   }
 
   document(): unknown {
@@ -236,6 +413,7 @@ class Reader {
       }
       const v = resolvePlain(s.slice(start, end));
       this.afterInline(parentIndent);
+      this.ref = start;
       return v;
     }
     if (s.charCodeAt(this.pos) === COLON) {
@@ -243,6 +421,7 @@ class Reader {
       return this.blockMap(col);
     }
     this.afterInline(parentIndent);
+    this.ref = start;
     return text;
   }
 
@@ -261,6 +440,7 @@ class Reader {
     this.enter();
     const s = this.s;
     const out: unknown[] = [];
+    const mark = this.openRecord(this.pos);
     for (;;) {
       // `pos` is on a `-` in column `col`
       this.pos++;
@@ -269,17 +449,23 @@ class Reader {
       if (p >= this.n || c === LF || c === HASH) {
         this.endLine();
         const ind = this.nextLine(false);
-        out.push(ind > col ? this.blockNode(ind, col) : null);
+        if (ind > col) out.push(this.blockNode(ind, col));
+        else {
+          out.push(null);
+          this.ref = p; // the library puts an empty item just past the spaces after its '-'
+        }
       } else {
         // the '-' is in column `col`; `this.pos` is just past it
         const at = col + 1 + (p - this.pos);
         this.pos = p;
         out.push(this.blockNode(at, col));
       }
+      this.push(this.ref);
       const ind = this.ind;
       if (ind === col && s.charCodeAt(this.pos) === DASH && this.isSeqIndicator(this.pos)) continue;
       if (ind > col) bail();
       this.depth--;
+      this.closeRecord(mark, SEQ, out.length);
       return out;
     }
   }
@@ -288,8 +474,11 @@ class Reader {
     this.enter();
     const s = this.s;
     const out: Record<string, unknown> = {};
+    const mark = this.openRecord(this.pos);
+    let count = 0;
     for (;;) {
       // `pos` is on a key in column `col`
+      const keyAt = this.pos;
       const key = this.blockKey();
       if (Object.prototype.hasOwnProperty.call(out, key)) bail();
       // past the ':'; it is followed by a space or the line end
@@ -301,21 +490,38 @@ class Reader {
         const ind = this.nextLine(false);
         if (ind > col) v = this.blockNode(ind, col);
         else if (ind === col && s.charCodeAt(this.pos) === DASH && this.isSeqIndicator(this.pos)) v = this.blockSeq(col);
-        else v = null;
+        else {
+          v = null;
+          this.ref = p; // the library puts an empty value just past the spaces after its ':'
+        }
       } else {
         this.pos = p;
         v = this.inlineValue(col);
       }
       out[key] = v;
+      this.push2(keyAt, this.ref);
+      count++;
       const ind = this.ind;
       if (ind === col) continue;
       if (ind > col) bail();
       this.depth--;
+      this.closeRecord(mark, BLOCK_MAP, count);
       return out;
     }
   }
 
   /** A mapping key and its `:` (which must be followed by a space or the line end). */
+  /** The key of a recorded entry, read again from its offset (which once read as a key). */
+  keyAt(offset: number, flow: boolean): string {
+    const s = this.s;
+    this.pos = offset;
+    const c = s.charCodeAt(offset);
+    if (c === DQUOTE) return this.doubleQuoted();
+    if (c === SQUOTE) return this.singleQuoted();
+    const end = flow ? this.plainFlow() : this.plainBlock();
+    return resolvePlain(s.slice(offset, end)) as string;
+  }
+
   private blockKey(): string {
     const s = this.s;
     const start = this.pos;
@@ -342,15 +548,18 @@ class Reader {
   private inlineValue(parentIndent: number): unknown {
     const s = this.s;
     const c = s.charCodeAt(this.pos);
+    const start = this.pos;
     let v: unknown;
     if (c === LBRACKET || c === LBRACE) v = this.flowValue(parentIndent + 1);
-    else if (c === DQUOTE) v = this.doubleQuoted();
-    else if (c === SQUOTE) v = this.singleQuoted();
     else {
-      const start = this.pos;
-      const end = this.plainBlock();
-      if (s.charCodeAt(this.pos) === COLON) bail(); // a mapping inside a compact value
-      v = resolvePlain(s.slice(start, end));
+      if (c === DQUOTE) v = this.doubleQuoted();
+      else if (c === SQUOTE) v = this.singleQuoted();
+      else {
+        const end = this.plainBlock();
+        if (s.charCodeAt(this.pos) === COLON) bail(); // a mapping inside a compact value
+        v = resolvePlain(s.slice(start, end));
+      }
+      this.ref = start;
     }
     if (s.charCodeAt(this.skipSpaces(this.pos)) === COLON) bail();
     this.afterInline(parentIndent);
@@ -501,6 +710,7 @@ class Reader {
     const c = s.charCodeAt(this.pos);
     if (c === LBRACKET) return this.flowSeq(minIndent);
     if (c === LBRACE) return this.flowMap(minIndent);
+    this.ref = this.pos;
     if (c === DQUOTE) return this.doubleQuoted();
     if (c === SQUOTE) return this.singleQuoted();
     const start = this.pos;
@@ -538,11 +748,12 @@ class Reader {
     if (++this.flowDepth === 1) this.outerClose = close;
   }
 
-  /** Step past the closing bracket. */
-  private leaveFlow<T>(out: T): T {
+  /** Step past the closing bracket and close the record opened at `mark`. */
+  private leaveFlow<T>(out: T, mark: number, kind: number, count: number): T {
     this.pos++;
     this.depth--;
     this.flowDepth--;
+    this.closeRecord(mark, kind, count);
     return out;
   }
 
@@ -550,22 +761,24 @@ class Reader {
     this.enterFlow(RBRACKET);
     const s = this.s;
     const out: unknown[] = [];
+    const mark = this.openRecord(this.pos);
     this.pos++;
     this.skipFlow(minIndent);
-    if (s.charCodeAt(this.pos) === RBRACKET) return this.leaveFlow(out);
+    if (s.charCodeAt(this.pos) === RBRACKET) return this.leaveFlow(out, mark, SEQ, 0);
     for (;;) {
       out.push(this.flowValue(minIndent));
+      this.push(this.ref);
       this.skipFlow(minIndent);
       const c = s.charCodeAt(this.pos);
       if (c === COMMA) {
         this.pos++;
         this.skipFlow(minIndent);
         const d = s.charCodeAt(this.pos);
-        if (d === RBRACKET) return this.leaveFlow(out); // a trailing comma is allowed
+        if (d === RBRACKET) return this.leaveFlow(out, mark, SEQ, out.length); // a trailing comma is allowed
         if (d === COMMA) bail(); // an empty entry is not
         continue;
       }
-      if (c === RBRACKET) return this.leaveFlow(out);
+      if (c === RBRACKET) return this.leaveFlow(out, mark, SEQ, out.length);
       bail(); // includes `[a: b]`, a pair inside a list
     }
   }
@@ -574,9 +787,11 @@ class Reader {
     this.enterFlow(RBRACE);
     const s = this.s;
     const out: Record<string, unknown> = {};
+    const mark = this.openRecord(this.pos);
+    let count = 0;
     this.pos++;
     this.skipFlow(minIndent);
-    if (s.charCodeAt(this.pos) === RBRACE) return this.leaveFlow(out);
+    if (s.charCodeAt(this.pos) === RBRACE) return this.leaveFlow(out, mark, FLOW_MAP, 0);
     for (;;) {
       const start = this.pos;
       const c = s.charCodeAt(start);
@@ -603,17 +818,19 @@ class Reader {
       const e = s.charCodeAt(this.pos);
       if (e === COMMA || e === RBRACE || e === COLON) bail(); // an empty value
       out[key] = this.flowValue(minIndent);
+      this.push2(start, this.ref);
+      count++;
       this.skipFlow(minIndent);
       const f = s.charCodeAt(this.pos);
       if (f === COMMA) {
         this.pos++;
         this.skipFlow(minIndent);
         const g = s.charCodeAt(this.pos);
-        if (g === RBRACE) return this.leaveFlow(out);
+        if (g === RBRACE) return this.leaveFlow(out, mark, FLOW_MAP, count);
         if (g === COMMA) bail();
         continue;
       }
-      if (f === RBRACE) return this.leaveFlow(out);
+      if (f === RBRACE) return this.leaveFlow(out, mark, FLOW_MAP, count);
       bail();
     }
   }

@@ -6,7 +6,7 @@ import { Ajv2020 } from "ajv/dist/2020.js";
 import type { ErrorObject, ValidateFunction } from "ajv";
 import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode, type Document } from "yaml";
 import { type Diagnostic, type SourceLocation, quote } from "./diagnostic.js";
-import { fastParse } from "./fast-yaml.js";
+import { type FastPositions, fastParseWithPositions } from "./fast-yaml.js";
 import { PLAN_SCHEMA } from "./schema.js";
 
 /**
@@ -108,19 +108,41 @@ export function parseSource(text: string, file: string, options: ParseOptions = 
   }
   // fastParse gives up on nesting deeper than MAX_DEPTH, so its data needs no depth check: the
   // full path below reports such text (walking 26 MB of plan data would cost tens of ms).
-  const data = options.fast === false ? undefined : fastParse(text, MAX_DEPTH);
-  if (data === undefined) return parseFull(text, file);
-  // Positions are needed only for diagnostics: the full parse runs on the first call, once.
-  let full: Locator | undefined;
-  const locate: Locator = (path, opts) => {
-    if (!full) {
-      const r = parseFull(text, file);
-      // cannot fail when the fast reader accepted the text; stay located at the file if it does
-      full = r.ok ? r.locate : (p) => ({ file, path: [...p] });
+  const fast = options.fast === false ? undefined : fastParseWithPositions(text, MAX_DEPTH);
+  if (fast === undefined) return parseFull(text, file);
+  return { ok: true, data: fast.data, locate: fastLocator(fast.positions, file) };
+}
+
+/**
+ * The Locator of parseFull's, from the positions the fast reader kept: the same walk over the
+ * same nodes (a mapping entry is found by its key as a string, a list item by a number), with
+ * offsets turned into lines and columns as the library's LineCounter does.
+ */
+function fastLocator(positions: FastPositions, file: string): Locator {
+  return (path, options) => {
+    let node = positions.root;
+    let found = positions.start(node);
+    for (let i = 0; i < path.length; i++) {
+      const key = path[i]!;
+      const kind = positions.kind(node);
+      if (kind === "map") {
+        const e = positions.entry(node, String(key));
+        if (e < 0) break;
+        const value = positions.value(node, e);
+        // Pointing at a block mapping or list value would name the line after its key.
+        const atKey = positions.kind(value) !== "scalar" || (options?.key === true && i === path.length - 1);
+        found = atKey ? positions.keyStart(node, e) : value;
+        node = value;
+      } else if (kind === "seq" && typeof key === "number") {
+        // what `items[key]` finds: integers from 0 below the length (-0 included)
+        if (!Number.isInteger(key) || key < 0 || key >= positions.count(node)) break;
+        node = positions.item(node, key);
+        found = positions.start(node);
+      } else break;
     }
-    return full(path, opts);
+    const p = positions.linePos(found);
+    return { file, line: p.line, column: p.col, path: [...path] };
   };
-  return { ok: true, data, locate };
 }
 
 /** The yaml library's parse, with a LineCounter for positions: every input that fastParse leaves alone. */

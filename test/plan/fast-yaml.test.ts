@@ -14,7 +14,7 @@ import { describe, expect, it } from "vitest";
 import { parseDocument } from "yaml";
 import { fastParse, resolvePlain } from "../../src/plan/fast-yaml.js";
 import { loadPlanText } from "../../src/plan/load.js";
-import { parseSource } from "../../src/plan/source.js";
+import { MAX_DEPTH, parseSource } from "../../src/plan/source.js";
 
 const ROOT = new URL("../../", import.meta.url).pathname;
 const SAMPLES = join(ROOT, "sample-plans");
@@ -432,6 +432,121 @@ describe("diagnostics are the same on the fast and the full path", () => {
     for (const p of paths) {
       expect(a.locate(p), p.join(".")).toEqual(b.locate(p));
       expect(a.locate(p, { key: true }), p.join(".")).toEqual(b.locate(p, { key: true }));
+    }
+  });
+});
+
+// ---- locating paths from the fast reader's own positions
+
+/** Every path into the data (all keys and indices, recursively), and paths that leave it at each level. */
+function pathsOf(data: unknown): (string | number)[][] {
+  const out: (string | number)[][] = [];
+  const walk = (v: unknown, path: (string | number)[]) => {
+    out.push(path);
+    if (Array.isArray(v)) {
+      v.forEach((x, i) => walk(x, [...path, i]));
+      out.push([...path, v.length], [...path, -1], [...path, 0.5], [...path, "0"], [...path, 0, "deeper"]);
+    } else if (v !== null && typeof v === "object") {
+      for (const [k, x] of Object.entries(v)) walk(x, [...path, k]);
+      out.push([...path, "no-such-key"], [...path, "no-such-key", 3], [...path, 0]);
+    } else out.push([...path, "below-a-scalar"], [...path, 0]);
+  };
+  walk(data, []);
+  return out;
+}
+
+/**
+ * When the fast reader takes the text, its locate gives what the full path's gives for every path,
+ * with and without `key`. Returns whether it took the text.
+ */
+function locatesAgree(text: string): boolean {
+  if (fastParse(text, MAX_DEPTH) === undefined) return false;
+  const a = parseSource(text, "p.yaml");
+  const b = parseSource(text, "p.yaml", { fast: false });
+  if (!a.ok || !b.ok) throw new Error(`${JSON.stringify(text)} did not parse on both paths`);
+  for (const p of pathsOf(b.data)) {
+    const what = `${JSON.stringify(text.length > 300 ? text.slice(0, 300) + "..." : text)} at ${JSON.stringify(p)}`;
+    expect(a.locate(p), what).toEqual(b.locate(p));
+    expect(a.locate(p, { key: true }), what).toEqual(b.locate(p, { key: true }));
+  }
+  return true;
+}
+
+describe("locate on the fast path, without the library", () => {
+  it("locates every path of every sample plan as the full path does, LF and CRLF", () => {
+    const files = filesIn(SAMPLES, /\.(ya?ml|json)$/);
+    for (const f of files) {
+      const text = readFileSync(f, "utf8");
+      expect(locatesAgree(text), f).toBe(true);
+      expect(locatesAgree(text.replace(/\n/g, "\r\n")), f).toBe(true);
+    }
+  });
+
+  it("locates every path of a generated benchmark plan, LF and CRLF", async () => {
+    const gen = (await import(pathToFileURL(join(ROOT, "bench/gen.mjs")).href)) as { planYaml(routers: number, seed: number): string };
+    const text = gen.planYaml(50, 3);
+    expect(locatesAgree(text)).toBe(true);
+    expect(locatesAgree(text.replace(/\n/g, "\r\n"))).toBe(true);
+  });
+
+  it("locates every path of the hostile-corpus files that take the fast path", () => {
+    let fast = 0;
+    for (const f of filesIn(CORPUS, /\.(ya?ml|json)$/)) if (locatesAgree(readFileSync(f, "utf8"))) fast++;
+    expect(fast).toBeGreaterThan(10);
+  });
+
+  it("locates every path of the hand-picked edge cases, LF and CRLF", () => {
+    let fast = 0;
+    for (const t of EDGE_CASES) {
+      if (locatesAgree(t)) fast++;
+      locatesAgree(t.replace(/\n/g, "\r\n"));
+    }
+    expect(fast).toBeGreaterThan(EDGE_CASES.length / 2);
+  });
+
+  it("locates every path of random block and flow documents", () => {
+    let fast = 0;
+    let runs = 0;
+    fc.assert(
+      fc.property(doc, (d) => {
+        runs++;
+        if (locatesAgree(renderDoc(d))) fast++;
+      }),
+      { seed: 0x10ca7e, numRuns: 600 },
+    );
+    expect(fast).toBeGreaterThan(runs / 5);
+  });
+
+  it("locates every path of random JSON text", () => {
+    let fast = 0;
+    fc.assert(
+      fc.property(fc.jsonValue({ maxDepth: 4 }), fc.constantFrom(0, 1, 2), (v, indent) => {
+        if (locatesAgree(JSON.stringify(v, null, indent))) fast++;
+      }),
+      { seed: 0x15012, numRuns: 300 },
+    );
+    expect(fast).toBeGreaterThan(100);
+  });
+
+  it("counts columns in UTF-16 code units and lines past CRLF as the library does", () => {
+    const text = "a: [\"\u{1F600}\", b]\r\n\u540d\u524d: x\r\nc:\r\n  - d\r\n  -\r\n";
+    const r = parseSource(text, "u.yaml");
+    if (!r.ok) throw new Error("did not parse");
+    expect(fastParse(text)).not.toBeUndefined();
+    expect(r.locate(["a", 1])).toEqual({ file: "u.yaml", line: 1, column: 11, path: ["a", 1] });
+    expect(r.locate(["\u540d\u524d"])).toEqual({ file: "u.yaml", line: 2, column: 5, path: ["\u540d\u524d"] });
+    expect(r.locate(["c", 0])).toEqual({ file: "u.yaml", line: 4, column: 5, path: ["c", 0] });
+    expect(r.locate(["c", 1])).toEqual({ file: "u.yaml", line: 5, column: 4, path: ["c", 1] });
+    expect(r.locate(["c", 1], { key: true })).toEqual(r.locate(["c", 1]));
+    expect(r.locate(["c"])).toEqual({ file: "u.yaml", line: 3, column: 1, path: ["c"] });
+    expect(locatesAgree(text)).toBe(true);
+  });
+
+  it("finds keys in a large mapping, numeric-looking and quoted keys included", () => {
+    const keys = Array.from({ length: 300 }, (_, i) => (i % 3 === 0 ? `"${299 - i}"` : i % 3 === 1 ? `'k ${i}'` : `k${i}`));
+    for (const flow of [false, true]) {
+      const text = flow ? `m: {${keys.map((k, i) => `${k}: ${i}`).join(", ")}}\n` : `m:\n${keys.map((k, i) => `  ${k}: ${i}`).join("\n")}\n`;
+      expect(locatesAgree(text)).toBe(true);
     }
   });
 });
