@@ -304,8 +304,10 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       // out of pass 2 too, or a new SID would take a value the lock also lists as retired.
       // When every locked key of this algorithm is one of this locator's keys, none leaves: count
       // instead of building a set (the usual case, and a million SIDs deep).
+      // each spec's locked value, looked up once
+      const lockedValues = keys.map((k) => lockedFns.get(k));
       let hits = 0;
-      for (const k of keys) if (lockedFns.has(k)) hits++;
+      for (const v of lockedValues) if (v !== undefined) hits++;
       if (hits < ((lockedPerAlgo ??= lockedCounts(lockedFns)).get(algo) ?? 0)) {
         const specKeys = new Set(keys);
         const algoPrefix = `${algo}|`;
@@ -342,7 +344,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
         const s = specs[si]!;
         const key = keys[si]!;
         if (s.noFunction) continue;
-        const locked = lockedFns.get(key);
+        const locked = lockedValues[si];
         if (s.pinned !== undefined) {
           if (s.pinned > fnMax) {
             diags.push({ code: "alloc/pin", message: `pinned function ${hex(s.pinned)} does not fit the ${L.functionBits}-bit function field of block ${quote(b.name)}`, location: plan.locate(s.at) });
@@ -427,7 +429,14 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       // pool usage: how many chosen values fall in each pool (pools the plan names may overlap)
       const used = new Map<PoolKind, bigint>();
       for (const kind of POOL_KINDS) used.set(kind, 0n);
-      for (const v of chosen.values()) for (const kind of POOL_KINDS) if (inRanges(v, pools[kind])) used.set(kind, used.get(kind)! + 1n);
+      const disjoint = poolsDisjoint(pools);
+      for (const v of chosen.values()) {
+        for (const kind of POOL_KINDS) {
+          if (!inRanges(v, pools[kind])) continue;
+          used.set(kind, used.get(kind)! + 1n);
+          if (disjoint) break; // no other pool can hold it
+        }
+      }
       for (const kind of POOL_KINDS) {
         const k = `${b.name}/${kind}`;
         const prev = poolMax.get(k);
@@ -443,7 +452,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
         if (!s.noFunction) {
           outKeys.push(key);
           outValues.push(fn);
-          if (sameAsLocked && lockedFns.get(key) !== fn) sameAsLocked = false;
+          if (sameAsLocked && lockedValues[si] !== fn) sameAsLocked = false;
         }
         sids.push(makeSid(b, L, locator, locFirst, algo, s, fn, key));
       }
@@ -793,6 +802,19 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     for (const n of t.nodes) add(n, spec);
   });
   return out;
+}
+
+const disjointCache = new WeakMap<Record<PoolKind, ValueRange[]>, boolean>();
+
+/** True when no value lies in two of the pools (the default split; pools a plan names may overlap). */
+function poolsDisjoint(pools: Record<PoolKind, ValueRange[]>): boolean {
+  let d = disjointCache.get(pools);
+  if (d === undefined) {
+    const all = POOL_KINDS.flatMap((k) => pools[k]).sort((a, b) => (a.first < b.first ? -1 : a.first > b.first ? 1 : 0));
+    d = all.every((r, i) => i === 0 || all[i - 1]!.last < r.first);
+    disjointCache.set(pools, d);
+  }
+  return d;
 }
 
 const poolCache = new WeakMap<Layout, { plan: Plan; pools: Record<PoolKind, ValueRange[]> }>();

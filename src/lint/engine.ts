@@ -110,11 +110,17 @@ export class LintViews {
 
   constructor(private readonly input: LintInput) {}
 
+  /** Depth of view-making in progress: a view made while making another is counted once, by the outer one. */
+  private depth = 0;
+
   private timed<T>(make: () => T): T {
+    if (this.depth > 0) return make();
     const t0 = performance.now();
+    this.depth++;
     try {
       return make();
     } finally {
+      this.depth--;
       this.viewMs += performance.now() - t0;
     }
   }
@@ -196,7 +202,10 @@ export function runLint(input: LintInput, rules: readonly Rule[], options: LintO
     firstRowMap = new Map();
     const p = input.packed;
     if (p) {
-      for (let i = p.count - 1; i >= 0; i--) if (p.row[i]! > 0) firstRowMap.set(p.nodeNames[p.node[i]!]!, p.row[i]!);
+      // first row per node id in one pass over the columns, then one map entry per node
+      const first = new Int32Array(p.nodeNames.length);
+      for (let i = 0; i < p.count; i++) if (first[p.node[i]!] === 0 && p.row[i]! > 0) first[p.node[i]!] = p.row[i]!;
+      for (let id = 0; id < first.length; id++) if (first[id]! > 0) firstRowMap.set(p.nodeNames[id]!, first[id]!);
     } else {
       for (const n of input.table.nodes) {
         const r = n.sids.find((s) => s.row !== undefined)?.row;
