@@ -4,12 +4,18 @@
  * `ip-address` also supplies the explanation when a string is rejected.
  */
 import { Address6 } from "ip-address";
+import { parseWordsBytes } from "./fast.js";
 import type { Addr } from "./uint128.js";
 
 /** Result of parsing: the value, or a plain reason quoting what was wrong. */
 export type ParseResult<T> = { ok: true; value: T } | { ok: false; reason: string };
 
-const HEX = "0123456789abcdef";
+/** ASCII codes of the hex digits, lower case. */
+const HEX_CODES = Uint8Array.from("0123456789abcdef", (c) => c.charCodeAt(0));
+/** The eight groups of the address at hand (formatWordsInto is not re-entrant; it need not be). */
+const groups = new Uint16Array(8);
+/** Where formatWords has formatWordsInto write (the longest text, ::ffff:255.255.255.255 or eight full groups, is 39 bytes). */
+const textScratch = Buffer.alloc(48);
 
 /**
  * RFC 5952 canonical text: lowercase, no leading zeros, the longest run (first on ties) of two
@@ -23,18 +29,52 @@ export function formatAddr(a: Addr): string {
   return formatWords(w0, w1, w2, w3);
 }
 
-/** RFC 5952 text from four 32-bit words (most significant first); the packed fast path. */
+/**
+ * RFC 5952 text from four 32-bit words (most significant first); the packed fast path. The text
+ * is formatWordsInto's bytes (one implementation of the rules for both).
+ */
 export function formatWords(w0: number, w1: number, w2: number, w3: number): string {
-  const g = [w0 >>> 16, w0 & 0xffff, w1 >>> 16, w1 & 0xffff, w2 >>> 16, w2 & 0xffff, w3 >>> 16, w3 & 0xffff];
+  return textScratch.toString("latin1", 0, formatWordsInto(textScratch, 0, w0, w1, w2, w3));
+}
+
+/**
+ * Write the RFC 5952 text of the address with words w0..w3 (most significant first; unsigned or
+ * signed 32-bit) as ASCII into `buf` at `pos`; returns the position after it. The caller leaves
+ * room: the text is at most 39 bytes. Allocates nothing.
+ */
+export function formatWordsInto(buf: Uint8Array, pos: number, w0: number, w1: number, w2: number, w3: number): number {
+  let p = pos;
   // IPv4-mapped ::ffff:a.b.c.d (RFC 5952 §5)
   if (w0 === 0 && w1 === 0 && w2 === 0xffff) {
-    return `::ffff:${w3 >>> 24}.${(w3 >>> 16) & 255}.${(w3 >>> 8) & 255}.${w3 & 255}`;
+    buf[p++] = 0x3a;
+    buf[p++] = 0x3a;
+    buf[p++] = 0x66;
+    buf[p++] = 0x66;
+    buf[p++] = 0x66;
+    buf[p++] = 0x66;
+    buf[p++] = 0x3a;
+    p = octetInto(buf, p, w3 >>> 24);
+    buf[p++] = 0x2e;
+    p = octetInto(buf, p, (w3 >>> 16) & 255);
+    buf[p++] = 0x2e;
+    p = octetInto(buf, p, (w3 >>> 8) & 255);
+    buf[p++] = 0x2e;
+    return octetInto(buf, p, w3 & 255);
   }
+  const g = groups; // a Uint16Array keeps the low 16 bits of what is stored
+  g[0] = w0 >>> 16;
+  g[1] = w0;
+  g[2] = w1 >>> 16;
+  g[3] = w1;
+  g[4] = w2 >>> 16;
+  g[5] = w2;
+  g[6] = w3 >>> 16;
+  g[7] = w3;
   let bestStart = -1;
   let bestLen = 1; // a single zero group is never compressed (RFC 5952 §4.2.2)
   for (let i = 0; i < 8; ) {
     if (g[i] === 0) {
-      let j = i;
+      let j = i + 1;
       while (j < 8 && g[j] === 0) j++;
       if (j - i > bestLen) {
         bestStart = i;
@@ -43,24 +83,33 @@ export function formatWords(w0: number, w1: number, w2: number, w3: number): str
       i = j;
     } else i++;
   }
-  let out = "";
+  const bestEnd = bestStart + bestLen;
   for (let i = 0; i < 8; i++) {
     if (i === bestStart) {
-      out += "::";
-      i += bestLen - 1;
+      buf[p++] = 0x3a;
+      buf[p++] = 0x3a;
+      i = bestEnd - 1;
       continue;
     }
-    if (out.length > 0 && !out.endsWith(":")) out += ":";
-    out += hex16(g[i]!);
+    if (i > 0 && i !== bestEnd) buf[p++] = 0x3a; // no ':' right after "::"
+    const v = g[i]!;
+    if (v >= 0x1000) buf[p++] = HEX_CODES[v >>> 12]!;
+    if (v >= 0x100) buf[p++] = HEX_CODES[(v >>> 8) & 15]!;
+    if (v >= 0x10) buf[p++] = HEX_CODES[(v >>> 4) & 15]!;
+    buf[p++] = HEX_CODES[v & 15]!;
   }
-  return out;
+  return p;
 }
 
-function hex16(v: number): string {
-  if (v < 0x10) return HEX[v]!;
-  if (v < 0x100) return HEX[v >>> 4]! + HEX[v & 15]!;
-  if (v < 0x1000) return HEX[v >>> 8]! + HEX[(v >>> 4) & 15]! + HEX[v & 15]!;
-  return HEX[v >>> 12]! + HEX[(v >>> 8) & 15]! + HEX[(v >>> 4) & 15]! + HEX[v & 15]!;
+/** One octet (0..255) in decimal without leading zeros. */
+function octetInto(buf: Uint8Array, p: number, v: number): number {
+  if (v >= 100) {
+    buf[p++] = 0x30 + ((v / 100) | 0);
+    v %= 100;
+    buf[p++] = 0x30 + ((v / 10) | 0);
+  } else if (v >= 10) buf[p++] = 0x30 + ((v / 10) | 0);
+  buf[p++] = 0x30 + (v % 10);
+  return p;
 }
 
 /** Fully expanded text (eight groups of four hex digits), as used in reverse-DNS work. */
@@ -71,113 +120,24 @@ export function formatAddrExpanded(a: Addr): string {
 /**
  * Parse one IPv6 address into its 128-bit value, writing the result into `out` as four 32-bit
  * words. Accepts every RFC 4291 §2.2 text form (upper or lower case, `::`, a dotted-quad tail);
- * rejects zone ids, brackets, prefixes, IPv4 alone and anything else. Returns false on failure.
- * This is the fast path used for bulk input; it allocates nothing.
+ * rejects zone ids, brackets, prefixes, IPv4 alone, surrounding spaces and anything else. Returns
+ * false on failure. The string edge of `parseWordsBytes` (fast.ts): the codes go through the
+ * same code as a file's bytes do. Allocates nothing.
  */
 export function parseWordsInto(s: string, out: Uint32Array, at: number): boolean {
   const n = s.length;
-  if (n < 2 || n > 45) return false;
-  const groups = scratch;
-  let count = 0;
-  let gap = -1;
-  let i = 0;
-  if (s.charCodeAt(0) === 58 /* : */) {
-    if (s.charCodeAt(1) !== 58) return false;
-    gap = 0;
-    i = 2;
-    if (i === n) {
-      out[at] = out[at + 1] = out[at + 2] = out[at + 3] = 0;
-      return true;
-    }
+  if (n < 2 || n > codes.length) return false;
+  for (let k = 0; k < n; k++) {
+    const c = s.charCodeAt(k);
+    if (c > 127) return false; // never part of address text (and would not fit a byte)
+    codes[k] = c;
   }
-  while (i < n) {
-    // read one group of hex digits, or an IPv4 tail
-    let v = 0;
-    let digits = 0;
-    const start = i;
-    while (i < n) {
-      const c = s.charCodeAt(i);
-      let d: number;
-      if (c >= 48 && c <= 57) d = c - 48;
-      else if (c >= 97 && c <= 102) d = c - 87;
-      else if (c >= 65 && c <= 70) d = c - 55;
-      else break;
-      v = (v << 4) | d;
-      digits++;
-      i++;
-    }
-    if (i < n && s.charCodeAt(i) === 46 /* . */) {
-      // dotted-quad tail: must be last and occupy two groups
-      const v4 = parseV4(s, start);
-      if (v4 < 0 || count > 6) return false;
-      groups[count++] = v4 >>> 16;
-      groups[count++] = v4 & 0xffff;
-      i = n;
-      break;
-    }
-    if (digits === 0 || digits > 4) return false;
-    if (count >= 8) return false;
-    groups[count++] = v;
-    if (i === n) break;
-    if (s.charCodeAt(i) !== 58) return false;
-    i++;
-    if (i < n && s.charCodeAt(i) === 58) {
-      if (gap >= 0) return false; // a second "::"
-      gap = count;
-      i++;
-      if (i === n) break;
-    } else if (i === n) return false; // trailing single ':'
-  }
-  if (gap < 0) {
-    if (count !== 8) return false;
-  } else if (count > 7) return false;
-  // expand into eight groups
-  const full = expanded;
-  if (gap < 0) for (let k = 0; k < 8; k++) full[k] = groups[k]!;
-  else {
-    const zeros = 8 - count;
-    let k = 0;
-    for (let j = 0; j < gap; j++) full[k++] = groups[j]!;
-    for (let j = 0; j < zeros; j++) full[k++] = 0;
-    for (let j = gap; j < count; j++) full[k++] = groups[j]!;
-  }
-  out[at] = ((full[0]! << 16) | full[1]!) >>> 0;
-  out[at + 1] = ((full[2]! << 16) | full[3]!) >>> 0;
-  out[at + 2] = ((full[4]! << 16) | full[5]!) >>> 0;
-  out[at + 3] = ((full[6]! << 16) | full[7]!) >>> 0;
-  return true;
+  return parseWordsBytes(codes, 0, n, out, at);
 }
 
-const scratch = new Array<number>(10).fill(0);
-const expanded = new Array<number>(8).fill(0);
+/** The codes of the string at hand (address text is at most 45 characters). */
+const codes = new Uint8Array(45);
 const words = new Uint32Array(4);
-
-function parseV4(s: string, start: number): number {
-  let value = 0;
-  let parts = 0;
-  let i = start;
-  while (parts < 4) {
-    let v = 0;
-    let digits = 0;
-    const from = i;
-    while (i < s.length) {
-      const c = s.charCodeAt(i);
-      if (c < 48 || c > 57) break;
-      v = v * 10 + (c - 48);
-      digits++;
-      i++;
-    }
-    if (digits === 0 || digits > 3 || v > 255) return -1;
-    if (digits > 1 && s.charCodeAt(from) === 48) return -1; // no leading zeros in a dotted quad
-    value = value * 256 + v;
-    parts++;
-    if (parts < 4) {
-      if (s.charCodeAt(i) !== 46) return -1;
-      i++;
-    }
-  }
-  return i === s.length ? value >>> 0 : -1;
-}
 
 /**
  * Parse one IPv6 address. The reason on failure quotes the input and says what is allowed, with

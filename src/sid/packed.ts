@@ -9,7 +9,7 @@
  * and line numbers (tests compare the two on random tables). `packTable` packs a `SidTable` that
  * already exists (an allocation). `radixSortIndex` is the index sort the linter's views use.
  */
-import { parseWordsBytes } from "../net/fast.js";
+import { HEX_DIGIT, parsePrefixBytes, parseWordsBytes } from "../net/fast.js";
 import { Prefix } from "../net/prefix.js";
 import { formatWords, parseAddr, parsePrefixParts } from "../net/text.js";
 import { fromWords, toWords } from "../net/uint128.js";
@@ -95,8 +95,13 @@ export class PackedSidTable {
   private readonly ctxTexts: (string | undefined)[] = [];
   /** Where context texts come from when the reader has not decoded them yet. */
   private ctxSource: { readonly size: number; text(id: number): string } | undefined;
-  /** Materialised entries (shared by every view of the table), and the source objects when packed from a SidTable. */
-  private readonly entries: (SidEntry | undefined)[];
+  /**
+   * Materialised entries (shared by every view of the table), and the source objects when packed
+   * from a SidTable: a map while few are made (rules make entries for their findings), a list
+   * once many are.
+   */
+  private entries: (SidEntry | undefined)[] | undefined;
+  private entryMap: Map<number, SidEntry> | undefined;
   private readonly locEntries: (LocatorEntry | undefined)[] = [];
   private rankCache: Int32Array | undefined;
   /** Parts of SidEntry.key, per context id and per flavour-set id (see keyOf). */
@@ -124,7 +129,6 @@ export class PackedSidTable {
     this.structure = new Int32Array(capacity);
     this.row = new Int32Array(capacity);
     this.context = new Int32Array(capacity);
-    this.entries = new Array(capacity);
     this.locNode = new Int32Array(64);
     this.locAlgorithm = new Int32Array(64);
     this.locPrefix = new Int32Array(64);
@@ -201,7 +205,7 @@ export class PackedSidTable {
 
   /** SID i as a SidEntry object, made once and shared (the source object when packed from a table). */
   entry(i: number): SidEntry {
-    let e = this.entries[i];
+    let e = this.entries !== undefined ? this.entries[i] : this.entryMap?.get(i);
     if (e === undefined) {
       const behavior = this.behaviors[this.behavior[i]!]!;
       const flavors = this.flavorSets[this.flavorSet[i]!]!;
@@ -221,7 +225,7 @@ export class PackedSidTable {
         row > 0
           ? { sid, behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key, row }
           : { sid, behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key };
-      this.entries[i] = e;
+      this.setEntry(i, e);
     }
     return e;
   }
@@ -277,7 +281,19 @@ export class PackedSidTable {
 
   /** @internal */
   setEntry(i: number, e: SidEntry): void {
-    this.entries[i] = e;
+    if (this.entries !== undefined) {
+      this.entries[i] = e;
+      return;
+    }
+    const m = (this.entryMap ??= new Map());
+    m.set(i, e);
+    if (m.size > 64 && m.size * 16 > this.count) {
+      // many entries: a list, filled from the map
+      const list: (SidEntry | undefined)[] = [];
+      for (let k = 0; k < this.count; k++) list.push(m.get(k));
+      this.entries = list;
+      this.entryMap = undefined;
+    }
   }
 
   /** @internal */
@@ -297,6 +313,16 @@ export class PackedSidTable {
 
   /** @internal add a distinct prefix; returns its id */
   addPrefix(p: Prefix): number {
+    const [a, b, c, d] = toWords(p.addr);
+    return this.pushPrefix(p, a, b, c, d);
+  }
+
+  /** @internal add a distinct prefix given by its words and length; returns its id */
+  addPrefixWords(w0: number, w1: number, w2: number, w3: number, len: number): number {
+    return this.pushPrefix(new Prefix(fromWords(w0, w1, w2, w3), len), w0, w1, w2, w3);
+  }
+
+  private pushPrefix(p: Prefix, a: number, b: number, c: number, d: number): number {
     const id = this.prefixes.length;
     if (id >= this.plen.length) {
       const grow = <T extends Uint32Array | Uint8Array>(a: T): T => {
@@ -310,7 +336,6 @@ export class PackedSidTable {
       this.pw3 = grow(this.pw3);
       this.plen = grow(this.plen);
     }
-    const [a, b, c, d] = toWords(p.addr);
     this.pw0[id] = a;
     this.pw1[id] = b;
     this.pw2[id] = c;
@@ -570,45 +595,58 @@ export function packTable(t: SidTable): PackedSidTable {
 // ------------------------------------------------------------------ reading CSV from bytes
 
 /**
- * Interns byte strings; keeps its own copy of each distinct key and decodes it on demand. The
- * open-addressing table holds [hash, id + 1] pairs side by side, so a probe reads one place.
+ * Interns byte strings; keeps its own copy of each distinct key and decodes it on demand. Ids
+ * count up from 0 in order of first appearance. Open addressing with linear probing.
  */
 class ByteInterner {
-  private slots = new Int32Array(2048); // pairs: hash, id + 1 (0 = empty)
-  private starts = new Int32Array(256);
-  private lens = new Int32Array(256);
-  private store = new Uint8Array(4096);
+  /** Probe table, four numbers a slot: hash, id + 1 (0 = empty), start in the store, length. */
+  private slots: Int32Array;
+  private starts: Int32Array;
+  private lens: Int32Array;
+  private store: Uint8Array;
+  private storeView: DataView;
   private used = 0;
   size = 0;
   private readonly texts: (string | undefined)[] = [];
 
-  /** Id of buf[s..e), adding it when new. */
-  intern(buf: Uint8Array, s: number, e: number): number {
-    let h = 0x811c9dc5;
-    for (let k = s; k < e; k++) h = Math.imul(h ^ buf[k]!, 16777619);
-    // FNV-1a mixes upwards only; a final mix (MurmurHash3's) spreads every byte into the low bits used for slots
-    h ^= h >>> 16;
-    h = Math.imul(h, 0x85ebca6b);
-    h ^= h >>> 13;
-    h = Math.imul(h, 0xc2b2ae35);
-    h ^= h >>> 16;
+  /** Where in `file` the key last asked for by internCell stands, and its id (lastS < 0: none). */
+  private lastS = -1;
+  private lastE = -1;
+  private lastId = -1;
+
+  /**
+   * Room for about `keys` keys of `bytes` bytes in all before anything grows. Growing costs a
+   * rehash (a write to a random place per key); room never used costs address space only, as
+   * the pages of a large buffer are only mapped when first written. `file`: the buffer whose
+   * cells internCell may remember (it must not change while the interner is in use).
+   */
+  constructor(
+    keys = 512,
+    bytes = 4096,
+    private readonly file?: Uint8Array,
+  ) {
+    let slots = 1024;
+    while (slots < 2 * keys) slots *= 2;
+    this.slots = new Int32Array(4 * slots);
+    this.starts = new Int32Array(Math.max(keys, 16));
+    this.lens = new Int32Array(Math.max(keys, 16));
+    this.store = new Uint8Array(Math.max(bytes, 16));
+    this.storeView = new DataView(this.store.buffer);
+  }
+
+  /** Id of buf[s..e), adding it when new; `view` is a DataView over the whole of `buf`. */
+  intern(buf: Uint8Array, view: DataView, s: number, e: number): number {
+    const h = hashBytes(buf, view, s, e);
     const len = e - s;
     const slots = this.slots;
-    const mask = (slots.length >> 1) - 1;
+    const mask = (slots.length >> 2) - 1;
     let slot = h & mask;
     for (;;) {
-      const v = slots[2 * slot + 1]!;
+      const o = 4 * slot;
+      const v = slots[o + 1]!;
       if (v === 0) break;
-      if (slots[2 * slot] === h) {
-        const id = v - 1;
-        if (this.lens[id] === len) {
-          const st = this.starts[id]!;
-          const store = this.store;
-          let k = 0;
-          while (k < len && store[st + k] === buf[s + k]) k++;
-          if (k === len) return id;
-        }
-      }
+      // one cache line holds all a probe needs before the bytes themselves
+      if (slots[o] === h && slots[o + 3] === len && sameBytes(this.store, this.storeView, slots[o + 2]!, buf, view, s, len)) return v - 1;
       slot = (slot + 1) & mask;
     }
     const id = this.size++;
@@ -620,14 +658,35 @@ class ByteInterner {
       const st = new Uint8Array(Math.max(this.store.length * 2, this.used + len));
       st.set(this.store.subarray(0, this.used));
       this.store = st;
+      this.storeView = new DataView(st.buffer);
     }
-    this.store.set(buf.subarray(s, e), this.used);
-    this.starts[id] = this.used;
+    const at = this.used;
+    copyBytes(buf, view, s, this.store, this.storeView, at, len);
+    this.starts[id] = at;
     this.lens[id] = len;
     this.used += len;
-    slots[2 * slot] = h;
-    slots[2 * slot + 1] = id + 1;
+    const o = 4 * slot;
+    slots[o] = h;
+    slots[o + 1] = id + 1;
+    slots[o + 2] = at;
+    slots[o + 3] = len;
     if (this.size * 2 > mask + 1) this.rehash();
+    return id;
+  }
+
+  /**
+   * `intern` for a cell of a table, which most often repeats the cell above it: when buf is
+   * `file` and holds the same bytes as the key asked for last, its id comes from comparing bytes.
+   */
+  internCell(buf: Uint8Array, view: DataView, s: number, e: number): number {
+    if (buf !== this.file) return this.intern(buf, view, s, e);
+    const ps = this.lastS;
+    const len = e - s;
+    if (ps >= 0 && this.lastE - ps === len && sameBytes(buf, view, ps, buf, view, s, len)) return this.lastId;
+    const id = this.intern(buf, view, s, e);
+    this.lastS = s;
+    this.lastE = e;
+    this.lastId = id;
     return id;
   }
 
@@ -642,21 +701,116 @@ class ByteInterner {
     return t;
   }
 
+  /** Done interning: give back the probe table (only `text` works afterwards). */
+  seal(): void {
+    this.slots = new Int32Array(4);
+  }
+
   private rehash(): void {
     const old = this.slots;
     const slots = new Int32Array(old.length * 2);
-    const mask = (slots.length >> 1) - 1;
-    for (let o = 0; o < old.length; o += 2) {
-      const v = old[o + 1]!;
-      if (v === 0) continue;
-      const h = old[o]!;
-      let slot = h & mask;
-      while (slots[2 * slot + 1] !== 0) slot = (slot + 1) & mask;
-      slots[2 * slot] = h;
-      slots[2 * slot + 1] = v;
+    const mask = (slots.length >> 2) - 1;
+    for (let o = 0; o < old.length; o += 4) {
+      if (old[o + 1] === 0) continue;
+      let slot = old[o]! & mask;
+      while (slots[4 * slot + 1] !== 0) slot = (slot + 1) & mask;
+      const p = 4 * slot;
+      slots[p] = old[o]!;
+      slots[p + 1] = old[o + 1]!;
+      slots[p + 2] = old[o + 2]!;
+      slots[p + 3] = old[o + 3]!;
     }
     this.slots = slots;
   }
+}
+
+/**
+ * A 32-bit hash of buf[s..e): four bytes a step, read through `view` (a DataView over `buf`) as
+ * one little-endian word (one multiply per word, not per byte), then MurmurHash3's final mix so
+ * that every byte reaches the low bits the slots use.
+ */
+function hashBytes(buf: Uint8Array, view: DataView, s: number, e: number): number {
+  let h = e - s;
+  let k = s;
+  for (; k + 4 <= e; k += 4) {
+    h = Math.imul(h ^ view.getInt32(k, true), 0x9e3779b1);
+    h ^= h >>> 15;
+  }
+  for (; k < e; k++) h = Math.imul(h ^ buf[k]!, 0x9e3779b1);
+  h ^= h >>> 16;
+  h = Math.imul(h, 0x85ebca6b);
+  h ^= h >>> 13;
+  h = Math.imul(h, 0xc2b2ae35);
+  return h ^ (h >>> 16);
+}
+
+/**
+ * Cell ranges of the quote-free line buf[s..e) split at its commas, into cs/ce; the number of
+ * cells, or -1 when cs/ce are too short. Four bytes are tested at once, read through `view` (a
+ * DataView over `buf`): a zero-byte test on the word XOR ",,,," flags the comma bytes. Sets
+ * `splitPlain` when no cell has an edge trimCells would change.
+ */
+function splitCommas(buf: Uint8Array, view: DataView, s: number, e: number, cs: Int32Array, ce: Int32Array): number {
+  const max = cs.length;
+  let cells = 0;
+  let from = s;
+  let odd = 0;
+  let k = s;
+  for (; k + 4 <= e; k += 4) {
+    const x = view.getInt32(k, true) ^ 0x2c2c2c2c;
+    // bit 7 of each byte of m: that byte of x is zero (exact: no carry crosses a byte)
+    let m = ~(((x & 0x7f7f7f7f) + 0x7f7f7f7f) | x | 0x7f7f7f7f);
+    while (m !== 0) {
+      const j = k + ((31 - Math.clz32(m & -m)) >> 3);
+      m &= m - 1;
+      if (cells === max) return -1;
+      if (j > from) odd |= oddEdges(buf[from]!, buf[j - 1]!);
+      cs[cells] = from;
+      ce[cells++] = j;
+      from = j + 1;
+    }
+  }
+  for (; k < e; k++) {
+    if (buf[k] !== 44) continue;
+    if (cells === max) return -1;
+    if (k > from) odd |= oddEdges(buf[from]!, buf[k - 1]!);
+    cs[cells] = from;
+    ce[cells++] = k;
+    from = k + 1;
+  }
+  if (cells === max) return -1;
+  if (e > from) odd |= oddEdges(buf[from]!, buf[e - 1]!);
+  cs[cells] = from;
+  ce[cells++] = e;
+  splitPlain = odd === 0;
+  return cells;
+}
+
+/** Set by splitCommas: no cell of the line it split needs trimming. */
+let splitPlain = false;
+
+/** 0 when a cell from byte `first` to byte `last` is printable ASCII at both edges and starts with no ' (trimCells leaves it as it is), else 1. */
+const oddEdges = (first: number, last: number) => (first > 32 && first < 127 && first !== 39 && last > 32 && last < 127 ? 0 : 1);
+
+/** True when a[as..as+len) and b[bs..bs+len) hold the same bytes (aView, bView: DataViews over a and b). */
+function sameBytes(a: Uint8Array, aView: DataView, as: number, b: Uint8Array, bView: DataView, bs: number, len: number): boolean {
+  let k = 0;
+  for (; k + 4 <= len; k += 4) if (aView.getInt32(as + k) !== bView.getInt32(bs + k)) return false;
+  for (; k < len; k++) if (a[as + k] !== b[bs + k]) return false;
+  return true;
+}
+
+/** Copy from[fs..fs+len) to to[ts..) (fromView, toView: DataViews over them). */
+function copyBytes(from: Uint8Array, fromView: DataView, fs: number, to: Uint8Array, toView: DataView, ts: number, len: number): void {
+  let k = 0;
+  for (; k + 4 <= len; k += 4) toView.setInt32(ts + k, fromView.getInt32(fs + k));
+  for (; k < len; k++) to[ts + k] = from[fs + k]!;
+}
+
+function growU8(a: Uint8Array): Uint8Array<ArrayBuffer> {
+  const b = new Uint8Array(a.length * 2);
+  b.set(a);
+  return b;
 }
 
 function growI32(a: Int32Array): Int32Array<ArrayBuffer> {
@@ -677,7 +831,66 @@ function decode(buf: Uint8Array, s: number, e: number): string {
   return utf8.decode(buf.subarray(s, e));
 }
 
-const encoder = new TextEncoder();
+/**
+ * Per BMP code point, 1 when String.prototype.trim removes it: made once, from trim itself, the
+ * first time a cell has a non-ASCII byte at an edge.
+ */
+let trimSpace: Uint8Array | undefined;
+
+function isTrimSpace(cp: number): boolean {
+  if (!trimSpace) {
+    trimSpace = new Uint8Array(65536);
+    for (let c = 0; c < 65536; c++) if (String.fromCharCode(c).trim() === "") trimSpace[c] = 1;
+  }
+  return cp < 65536 && trimSpace[cp] === 1;
+}
+
+/** The code point of the UTF-8 sequence buf[s..e) when it is exactly one of two or three bytes, else -1. */
+function codePointOf(buf: Uint8Array, s: number, e: number): number {
+  const b = buf[s]!;
+  if (e - s === 2 && b >= 0xc2 && b < 0xe0) return ((b & 0x1f) << 6) | (buf[s + 1]! & 0x3f);
+  if (e - s === 3 && b >= 0xe0 && b < 0xf0) return ((b & 0x0f) << 12) | ((buf[s + 1]! & 0x3f) << 6) | (buf[s + 2]! & 0x3f);
+  return -1;
+}
+
+/** Length of the UTF-8 sequence that starts with byte b (1 for a stray continuation byte). */
+const seqLength = (b: number) => (b >= 0xf0 ? 4 : b >= 0xe0 ? 3 : b >= 0xc0 ? 2 : 1);
+
+/**
+ * Trim cells 0..cells-1 (ranges cs/ce into buf) in place, as `unneutralize(cell.trim())` in the
+ * reference: the spaces String.prototype.trim removes (ASCII ones here, the Unicode ones decoded
+ * from their UTF-8 at the edges), then our formula guard (a ' before =, +, -, @, tab or CR). The
+ * trimmed text of valid UTF-8 is always a range of its bytes.
+ */
+function trimCells(buf: Uint8Array, cs: Int32Array, ce: Int32Array, cells: number): void {
+  for (let k = 0; k < cells; k++) {
+    let s = cs[k]!;
+    let e = ce[k]!;
+    if (s === e) continue;
+    if (oddEdges(buf[s]!, buf[e - 1]!) === 0) continue;
+    for (;;) {
+      while (s < e && isAsciiSpace(buf[s]!)) s++;
+      if (s === e || buf[s]! < 0x80) break;
+      const len = seqLength(buf[s]!);
+      if (s + len > e || !isTrimSpace(codePointOf(buf, s, s + len))) break;
+      s += len;
+    }
+    for (;;) {
+      while (e > s && isAsciiSpace(buf[e - 1]!)) e--;
+      if (e === s || buf[e - 1]! < 0x80) break;
+      let p = e - 1;
+      while (p > s && e - p < 3 && (buf[p]! & 0xc0) === 0x80) p--;
+      if (!isTrimSpace(codePointOf(buf, p, e))) break;
+      e = p;
+    }
+    if (e - s > 1 && buf[s] === 39) {
+      const c1 = buf[s + 1]!;
+      if (c1 === 61 || c1 === 43 || c1 === 45 || c1 === 64 || c1 === 9 || c1 === 13) s++;
+    }
+    cs[k] = s;
+    ce[k] = e;
+  }
+}
 
 /**
  * parseContext's test on bytes: empty, or every ';'-separated part has an '=' after at least one
@@ -685,31 +898,114 @@ const encoder = new TextEncoder();
  */
 function contextBytesValid(buf: Uint8Array, s: number, e: number): boolean {
   if (s === e) return true;
-  let ps = s;
-  let eq = -1;
-  for (let k = s; k <= e; k++) {
-    const c = k === e ? 59 : buf[k]!;
-    if (c === 59 /* ; */) {
-      if (eq < 0 || eq === ps) return false;
-      ps = k + 1;
-      eq = -1;
-    } else if (c === 61 /* = */ && eq < 0) eq = k;
+  for (let ps = s; ; ) {
+    // the part from ps to the next ';' (or the end): its first '=' must follow a character
+    let k = ps;
+    while (k < e && buf[k] !== 59 /* ; */ && buf[k] !== 61 /* = */) k++;
+    if (k === ps || k === e || buf[k] === 59) return false;
+    while (k < e && buf[k] !== 59) k++;
+    if (k === e) return true;
+    ps = k + 1;
   }
-  return true;
 }
+
+/**
+ * The line of each row (0 the header, then the data rows in order), kept as runs: rows whose line
+ * is their number plus the same offset (no blank line, comment or line break in a cell between
+ * them) share one entry.
+ */
+class RowLines {
+  private firstRow = new Int32Array(16);
+  private offset = new Int32Array(16);
+  private runs = 0;
+
+  /** Row r, the row after the last one noted (0 at first), stands at `line`. */
+  note(r: number, line: number): void {
+    const d = line - r;
+    if (this.runs > 0 && this.offset[this.runs - 1] === d) return;
+    if (this.runs === this.firstRow.length) {
+      this.firstRow = growI32(this.firstRow);
+      this.offset = growI32(this.offset);
+    }
+    this.firstRow[this.runs] = r;
+    this.offset[this.runs++] = d;
+  }
+
+  /** The line of row r (one of the rows noted). */
+  lineOf(r: number): number | undefined {
+    if (this.runs === 0) return undefined;
+    let lo = 0;
+    let hi = this.runs - 1;
+    while (lo < hi) {
+      const mid = (lo + hi + 1) >> 1;
+      if (this.firstRow[mid]! <= r) lo = mid;
+      else hi = mid - 1;
+    }
+    return r + this.offset[lo]!;
+  }
+}
+
+/** ASCII whitespace that String.prototype.trim removes (see trimCells for the others). */
+const isAsciiSpace = (c: number) => c === 32 || (c >= 9 && c <= 13);
+
+/** Digits only, 1..maxDigits of them, in buf[s..e): the value, else -1. */
+function digitsIn(buf: Uint8Array, s: number, e: number, maxDigits: number): number {
+  const len = e - s;
+  if (len < 1 || len > maxDigits) return -1;
+  let v = 0;
+  for (let k = s; k < e; k++) {
+    const c = buf[k]!;
+    if (c < 48 || c > 57) return -1;
+    v = v * 10 + (c - 48);
+  }
+  return v;
+}
+
+/**
+ * The function cell buf[s..e) (not empty) as the reference's /^(0[xX][0-9a-fA-F]{1,32}|\d{1,39})$/
+ * and BigInt read it: its value when that is a number read exactly here (up to 13 hex or 15
+ * decimal digits), -2 when it is a number too long for that (ask BigInt), -1 when it is none.
+ */
+function functionIn(buf: Uint8Array, s: number, e: number): number {
+  const len = e - s;
+  if (len >= 3 && buf[s] === 48 && (buf[s + 1] === 120 || buf[s + 1] === 88) && len - 2 <= 32) {
+    let v = 0;
+    let k = s + 2;
+    for (let d: number; k < e && (d = HEX_DIGIT[buf[k]!]!) >= 0; k++) v = v * 16 + d;
+    if (k === e) return len - 2 > 13 ? -2 : v;
+  }
+  if (len > 39) return -1;
+  const v = digitsIn(buf, s, e, 39);
+  return v < 0 ? -1 : len > 15 ? -2 : v;
+}
+
 const ALL_COLUMNS = new Set<string>([...REQUIRED_COLUMNS, ...OPTIONAL_COLUMNS]);
 const STRUCT_COLUMNS = ["block_bits", "node_bits", "function_bits", "argument_bits"] as const;
 
-/** ASCII whitespace that String.prototype.trim removes (the non-ASCII kinds take the slow path). */
-const isAsciiSpace = (c: number) => c === 32 || (c >= 9 && c <= 13);
+/** Where each column is read from: the COL_* numbers index `col` (cell index, or -1 when absent). */
+const COLS = ["node", "sid", "behavior", "algorithm", "locator", "flavors", "codepoint", "function", "block_bits", "node_bits", "function_bits", "argument_bits", "context"] as const;
+const COL_NODE = 0,
+  COL_SID = 1,
+  COL_BEHAVIOR = 2,
+  COL_ALG = 3,
+  COL_LOC = 4,
+  COL_FLAV = 5,
+  COL_CP = 6,
+  COL_FN = 7,
+  COL_B = 8,
+  COL_CTX = 12;
 
 /**
  * Read a CSV SID table from its bytes (UTF-8; a leading byte-order mark is skipped). Gives the
  * same table, problems and line numbers as `readCsvTable` on the decoded text; the caller checks
- * that the bytes are UTF-8 (the CLI does, with `decodeUtf8` for the message).
+ * that the bytes are UTF-8 (the CLI does, with `decodeUtf8` for the message). Nothing is made
+ * per row but numbers in columns: texts (nodes, behaviours, flavour lists, locators, contexts)
+ * are interned from their bytes, and a string is made once per distinct text, if ever.
  */
 export function readCsvPacked(bytes: Uint8Array, plan = ""): PackedReadResult {
   const n = bytes.length;
+  // words of the file are read through a DataView (hashing, comparing, splitting four bytes at a time)
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   let i0 = 0;
   if (n >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf) i0 = 3;
   // capacity: one SID per line at most
@@ -717,321 +1013,241 @@ export function readCsvPacked(bytes: Uint8Array, plan = ""): PackedReadResult {
   for (let p = bytes.indexOf(10, i0); p >= 0; p = bytes.indexOf(10, p + 1)) lineCount++;
   const t = new PackedSidTable(plan, 0, lineCount);
   const problems: TableProblem[] = [];
-  let lineOfRow = new Int32Array(lineCount + 2);
+  const lineOfRow = new RowLines();
 
-  // cell ranges of the record at hand, into `cur` (the file, or the scratch buffer of a quoted record)
+  // cell ranges of the record at hand: into the file, or into the scratch buffer of a quoted record
   let cs = new Int32Array(32);
   let ce = new Int32Array(32);
-  let cells = 0;
-  let cur: Uint8Array = bytes;
   let scratch = new Uint8Array(1024);
+  let scratchView = new DataView(scratch.buffer);
   let scratchUsed = 0;
-  // a second scratch for cells that needed Unicode trimming
-  let alt = new Uint8Array(256);
-  let altUsed = 0;
-  let valBuf: Uint8Array = bytes;
-  let vs = 0;
-  let ve = 0;
 
   let header: string[] | undefined;
   const col = new Int32Array(16).fill(-1);
-  const colIndex: Record<string, number> = {};
+  let hasStructure = false;
   let row = 0;
   let fatal = false;
 
-  const nodeIds = new ByteInterner();
-  const behaviorIds = new ByteInterner();
-  const flavorIds = new ByteInterner();
-  const ctxIds = new ByteInterner();
-  const prefixTexts = new ByteInterner();
+  // texts by their bytes; a text that repeats the row before is known by comparing bytes
+  const nodeIds = new ByteInterner(512, 4096, bytes);
+  const behaviorIds = new ByteInterner(512, 4096, bytes);
+  const flavorIds = new ByteInterner(512, 4096, bytes);
+  const prefixTexts = new ByteInterner(512, 4096, bytes);
+  // contexts: often one for every few rows, so room for one in two rows (up to a million) and
+  // their bytes from the start: growing is a rehash, and fresh pages for every table on the way
+  const ctxIds = new ByteInterner(Math.min(lineCount >> 1, 1 << 20), n >> 2);
   /** per prefix text id: prefix id (>= 0), or the index of its reason in prefixReasons as -(k + 1) */
   const prefixOfText: number[] = [];
   const prefixReasons: string[] = [];
-  const prefixByValue = new Map<string, number>();
-  /** per context text id: 1 valid, 0 not key=value pairs */
-  const ctxValid: number[] = [];
+  /** distinct prefixes by value: 17-byte keys (four words, length) -> prefix id (the interner's own id) */
+  const prefixByValue = new ByteInterner();
+  /** owned locators by 12-byte keys (node id, algorithm, prefix id) -> locator id (the interner's own id) */
+  const owned = new ByteInterner();
+  // keys of the two tables above, written here
+  const key = new Uint8Array(20);
+  const keyView = new DataView(key.buffer);
+  /** per context text id: 1 valid, 2 not key=value pairs, 0 not yet known */
+  let ctxValid = new Uint8Array(1024);
   const flavorMaskOf: number[] = [];
   const structIds = new Map<string, number>();
   const structById = new Map<number, number>();
-  /** owned locators: key node * 256 + algorithm -> list of [prefix id, locator id] */
-  const owned = new Map<number, number[]>();
+  let lastStructKey = -1;
+  let lastStruct = -1;
+  let lastLocPrefix = -1;
+  let lastLocNode = -1;
+  let lastLocAlg = -1;
+  let lastLoc = -1;
   /** interner id -> node id; a node gets its id with its first accepted row, as the reference adds nodes */
   let nodeOfIntern = new Int32Array(256).fill(-1);
   const words = new Uint32Array(4);
 
-  const COL_NODE = 0,
-    COL_SID = 1,
-    COL_BEHAVIOR = 2,
-    COL_ALG = 3,
-    COL_LOC = 4,
-    COL_FLAV = 5,
-    COL_CP = 6,
-    COL_FN = 7,
-    COL_B = 8,
-    COL_N = 9,
-    COL_F = 10,
-    COL_A = 11,
-    COL_CTX = 12;
-  const COLS = ["node", "sid", "behavior", "algorithm", "locator", "flavors", "codepoint", "function", "block_bits", "node_bits", "function_bits", "argument_bits", "context"];
-
-  const cellText = (k: number) => decode(cur, cs[k]!, ce[k]!);
-  const valText = () => decode(valBuf, vs, ve);
-
-  /**
-   * Select column `c` (one of COL_*) as the value vs..ve in valBuf, trimmed and with our formula
-   * guard removed, as `unneutralize(cell.trim())` in the reference. False when the column is absent.
-   */
-  const get = (c: number): boolean => {
-    const k = col[c]!;
-    if (k < 0) return false;
-    let s = cs[k]!;
-    let e = ce[k]!;
-    while (s < e && isAsciiSpace(cur[s]!)) s++;
-    while (e > s && isAsciiSpace(cur[e - 1]!)) e--;
-    if (s < e && (cur[s]! >= 0x80 || cur[e - 1]! >= 0x80)) {
-      // Unicode spaces at an edge: use the string functions themselves
-      let str = decode(cur, s, e).trim();
-      if (str.length > 1 && str.charCodeAt(0) === 39 && /^'[=+\-@\t\r]/.test(str)) str = str.slice(1);
-      const need = str.length * 3;
-      if (altUsed + need > alt.length) {
-        alt = new Uint8Array(Math.max(alt.length * 2, need + 256));
-        altUsed = 0;
-      }
-      const w = encoder.encodeInto(str, alt.subarray(altUsed));
-      valBuf = alt;
-      vs = altUsed;
-      ve = altUsed + w.written!;
-      altUsed = ve;
-      return true;
-    }
-    if (e - s > 1 && cur[s] === 39) {
-      const c1 = cur[s + 1]!;
-      if (c1 === 61 || c1 === 43 || c1 === 45 || c1 === 64 || c1 === 9 || c1 === 13) s++;
-    }
-    valBuf = cur;
-    vs = s;
-    ve = e;
-    return true;
-  };
-
-  const bad = (field: string, value: string, message: string) => {
+  const problem = (field: string, value: string, message: string) => {
     problems.push({ row, field, message, value });
   };
 
-  /** Digits only, 1..maxDigits of them: the value, else -1. */
-  const digits = (maxDigits: number): number => {
-    const len = ve - vs;
-    if (len < 1 || len > maxDigits) return -1;
-    let v = 0;
-    for (let k = vs; k < ve; k++) {
-      const c = valBuf[k]!;
-      if (c < 48 || c > 57) return -1;
-      v = v * 10 + (c - 48);
-    }
-    return v;
+  /**
+   * Cell k of buf as a whole number of 1..maxDigits digits, 0..max: its value; -1 when the column
+   * is absent (k < 0) or the cell empty; -2 when it is something else (the problem is noted).
+   */
+  const wholeNumber = (buf: Uint8Array, k: number, field: string, maxDigits: number, max: number): number => {
+    if (k < 0 || ce[k] === cs[k]) return -1;
+    const v = digitsIn(buf, cs[k]!, ce[k]!, maxDigits);
+    if (v >= 0 && v <= max) return v;
+    const text = decode(buf, cs[k]!, ce[k]!);
+    problem(field, text, `${field} ${JSON.stringify(text)} is not a whole number 0..${max}`);
+    return -2;
   };
 
-  // The last value of a column when it came from the file itself: most rows repeat the node,
-  // behaviour, locator and flavours of the row before, and comparing bytes is cheaper than hashing.
-  const lastS = new Int32Array(16).fill(-1);
-  const lastE = new Int32Array(16).fill(-1);
-  const lastId = new Int32Array(16).fill(-1);
-  /** Interned id of the current value of column c (interner `into`), using the last-value cache. */
-  const internCol = (c: number, into: ByteInterner): number => {
-    if (valBuf === bytes) {
-      const ps = lastS[c]!;
-      const len = ve - vs;
-      if (ps >= 0 && lastE[c]! - ps === len) {
-        let k = 0;
-        while (k < len && bytes[ps + k] === bytes[vs + k]) k++;
-        if (k === len) return lastId[c]!;
-      }
-      const id = into.intern(bytes, vs, ve);
-      lastS[c] = vs;
-      lastE[c] = ve;
-      lastId[c] = id;
-      return id;
-    }
-    return into.intern(valBuf, vs, ve);
-  };
-
-  const onRecord = (line: number) => {
-    if (fatal) return;
-    if (!header) {
-      if (cells > 0 && cur[cs[0]!] === 35 /* # */ && ce[0]! > cs[0]!) return;
-      header = [];
-      for (let k = 0; k < cells; k++) header.push(cellText(k).trim());
-      lineOfRow[0] = line;
-      const missing = REQUIRED_COLUMNS.filter((c) => !header!.includes(c));
-      if (missing.length) {
-        problems.push({ row: 0, field: missing.join(","), message: `the header lacks the required column${missing.length > 1 ? "s" : ""} ${missing.join(", ")}; required: ${REQUIRED_COLUMNS.join(", ")}`, value: header.join(",") });
-        fatal = true;
-        return;
-      }
-      header.forEach((h, k) => {
-        if (!ALL_COLUMNS.has(h)) problems.push({ row: 0, field: h, message: `unknown column ${JSON.stringify(h)}; allowed: ${[...ALL_COLUMNS].join(", ")}`, value: h });
-        else if (colIndex[h] !== undefined) problems.push({ row: 0, field: h, message: `column ${JSON.stringify(h)} appears twice`, value: h });
-        else colIndex[h] = k;
-      });
-      COLS.forEach((name, c) => (col[c] = colIndex[name] ?? -1));
+  /** The header: the first record that is not a comment. */
+  const onHeader = (buf: Uint8Array, cells: number, line: number) => {
+    if (cells > 0 && buf[cs[0]!] === 35 /* # */ && ce[0]! > cs[0]!) return;
+    const names: string[] = [];
+    for (let k = 0; k < cells; k++) names.push(decode(buf, cs[k]!, ce[k]!).trim());
+    header = names;
+    lineOfRow.note(0, line);
+    const missing = REQUIRED_COLUMNS.filter((c) => !names.includes(c));
+    if (missing.length) {
+      problems.push({ row: 0, field: missing.join(","), message: `the header lacks the required column${missing.length > 1 ? "s" : ""} ${missing.join(", ")}; required: ${REQUIRED_COLUMNS.join(", ")}`, value: names.join(",") });
+      fatal = true;
       return;
     }
+    const colIndex: Record<string, number> = {};
+    names.forEach((h, k) => {
+      if (!ALL_COLUMNS.has(h)) problems.push({ row: 0, field: h, message: `unknown column ${JSON.stringify(h)}; allowed: ${[...ALL_COLUMNS].join(", ")}`, value: h });
+      else if (colIndex[h] !== undefined) problems.push({ row: 0, field: h, message: `column ${JSON.stringify(h)} appears twice`, value: h });
+      else colIndex[h] = k;
+    });
+    COLS.forEach((name, c) => (col[c] = colIndex[name] ?? -1));
+    hasStructure = STRUCT_COLUMNS.some((name) => colIndex[name] !== undefined);
+  };
+
+  /**
+   * A data record: cells 0..cells-1 at cs/ce in buf (the file, or the scratch buffer of a quoted
+   * record; bufView is a DataView over it; plain: no cell needs trimming). The checks run in the
+   * reference's order, and the first that fails makes the row's problem.
+   */
+  const onData = (buf: Uint8Array, bufView: DataView, cells: number, line: number, plain: boolean) => {
     row++;
-    if (row >= lineOfRow.length) lineOfRow = growI32(lineOfRow);
-    lineOfRow[row] = line;
-    if (cells !== header.length) {
+    lineOfRow.note(row, line);
+    const width = header!.length;
+    if (cells !== width) {
       const joined: string[] = [];
-      for (let k = 0; k < cells; k++) joined.push(cellText(k));
-      problems.push({ row, field: "", message: `row has ${cells} cells but the header has ${header.length} columns (line ${line})`, value: joined.join(",").slice(0, 80) });
+      for (let k = 0; k < cells; k++) joined.push(decode(buf, cs[k]!, ce[k]!));
+      problems.push({ row, field: "", message: `row has ${cells} cells but the header has ${width} columns (line ${line})`, value: joined.join(",").slice(0, 80) });
       return;
     }
-    const i = t.count;
+    if (!plain) trimCells(buf, cs, ce, cells);
     // node
-    get(COL_NODE);
-    if (ve === vs) return bad("node", "", "node name is empty");
-    const nodeKey = internCol(COL_NODE, nodeIds);
-    // sid
-    get(COL_SID);
-    // parseWordsBytes accepts only hex digits, ':' and '.', where trimming changes nothing, so a
-    // success is parseAddr's success; anything else goes to parseAddr itself for its reason.
-    if (!parseWordsBytes(valBuf, vs, ve, words, 0)) {
-      const text = valText();
+    let k = col[COL_NODE]!;
+    let s = cs[k]!;
+    let e = ce[k]!;
+    if (s === e) return problem("node", "", "node name is empty");
+    const nodeKey = nodeIds.internCell(buf, bufView, s, e);
+    // sid: parseWordsBytes accepts only hex digits, ':' and '.', where trimming changes nothing,
+    // so a success is parseAddr's success; anything else goes to parseAddr itself for its reason
+    k = col[COL_SID]!;
+    s = cs[k]!;
+    e = ce[k]!;
+    if (!parseWordsBytes(buf, s, e, words, 0)) {
+      const text = decode(buf, s, e);
       const a = parseAddr(text);
-      if (!a.ok) return bad("sid", text, a.reason);
+      if (!a.ok) return problem("sid", text, a.reason);
       const w = toWords(a.value);
-      words[0] = w[0];
-      words[1] = w[1];
-      words[2] = w[2];
-      words[3] = w[3];
+      for (let q = 0; q < 4; q++) words[q] = w[q]!;
     }
-    const sw0 = words[0]!,
-      sw1 = words[1]!,
-      sw2 = words[2]!,
-      sw3 = words[3]!;
+    const sw0 = words[0]!;
+    const sw1 = words[1]!;
+    const sw2 = words[2]!;
+    const sw3 = words[3]!;
     // behavior
-    get(COL_BEHAVIOR);
-    if (ve === vs) return bad("behavior", "", "behavior is empty; write the IANA name, e.g. End.DT4");
-    const bid = internCol(COL_BEHAVIOR, behaviorIds);
+    k = col[COL_BEHAVIOR]!;
+    s = cs[k]!;
+    e = ce[k]!;
+    if (s === e) return problem("behavior", "", "behavior is empty; write the IANA name, e.g. End.DT4");
+    const bid = behaviorIds.internCell(buf, bufView, s, e);
     if (bid === t.behaviors.length) t.behaviors.push(behaviorIds.text(bid));
     // algorithm
-    let algorithm = 0;
-    if (get(COL_ALG) && ve > vs) {
-      const v = digits(3);
-      if (v < 0 || v > 255) {
-        const text = valText();
-        return bad("algorithm", text, `algorithm ${JSON.stringify(text)} is not a whole number 0..255`);
-      }
-      algorithm = v;
-    }
+    const alg = wholeNumber(buf, col[COL_ALG]!, "algorithm", 3, 255);
+    if (alg === -2) return;
+    const algorithm = alg < 0 ? 0 : alg;
     // locator
     let prefix = -1;
-    if (get(COL_LOC) && ve > vs) {
-      const tid = internCol(COL_LOC, prefixTexts);
+    k = col[COL_LOC]!;
+    if (k >= 0 && ce[k]! > cs[k]!) {
+      s = cs[k]!;
+      e = ce[k]!;
+      const tid = prefixTexts.internCell(buf, bufView, s, e);
       if (tid === prefixOfText.length) {
-        const text = prefixTexts.text(tid);
-        const r = parsePrefixParts(text);
-        if (r.ok) {
-          const key = `${r.value.len}|${r.value.addr}`;
-          let pid = prefixByValue.get(key);
-          if (pid === undefined) {
-            pid = t.addPrefix(new Prefix(r.value.addr, r.value.len));
-            prefixByValue.set(key, pid);
-          }
+        // a new text: its bytes are the prefix, else parsePrefixParts says what it is or why not
+        let len = parsePrefixBytes(buf, s, e, words, 0);
+        let reason = "";
+        if (len < 0) {
+          const r = parsePrefixParts(prefixTexts.text(tid));
+          if (r.ok) {
+            const w = toWords(r.value.addr);
+            for (let q = 0; q < 4; q++) words[q] = w[q]!;
+            len = r.value.len;
+          } else reason = r.reason;
+        }
+        if (len >= 0) {
+          for (let q = 0; q < 4; q++) keyView.setUint32(4 * q, words[q]!);
+          key[16] = len;
+          const pid = prefixByValue.intern(key, keyView, 0, 17);
+          if (pid === t.prefixes.length) t.addPrefixWords(words[0]!, words[1]!, words[2]!, words[3]!, len);
           prefixOfText.push(pid);
         } else {
-          prefixReasons.push(r.reason);
+          prefixReasons.push(reason);
           prefixOfText.push(-prefixReasons.length);
         }
       }
-      const pv = prefixOfText[tid]!;
-      if (pv < 0) return bad("locator", prefixTexts.text(tid), prefixReasons[-pv - 1]!);
-      prefix = pv;
+      prefix = prefixOfText[tid]!;
+      if (prefix < 0) return problem("locator", prefixTexts.text(tid), prefixReasons[-prefix - 1]!);
     }
     // codepoint
-    let codepoint = NaN;
-    if (get(COL_CP) && ve > vs) {
-      const v = digits(5);
-      if (v < 0 || v > 65535) {
-        const text = valText();
-        return bad("codepoint", text, `codepoint ${JSON.stringify(text)} is not a whole number 0..65535`);
-      }
-      codepoint = v;
-    }
+    const cp = wholeNumber(buf, col[COL_CP]!, "codepoint", 5, 65535);
+    if (cp === -2) return;
+    const codepoint = cp < 0 ? NaN : cp;
     // function
-    let fnNum = 0;
+    let fn = 0;
     let fnBig: bigint | undefined;
-    if (get(COL_FN) && ve > vs) {
-      const len = ve - vs;
-      let ok = false;
-      if (len >= 3 && valBuf[vs] === 48 && (valBuf[vs + 1] === 120 || valBuf[vs + 1] === 88) && len - 2 <= 32) {
-        ok = true;
-        let v = 0;
-        for (let k = vs + 2; k < ve; k++) {
-          const c = valBuf[k]!;
-          const d = c >= 48 && c <= 57 ? c - 48 : c >= 97 && c <= 102 ? c - 87 : c >= 65 && c <= 70 ? c - 55 : -1;
-          if (d < 0) {
-            ok = false;
-            break;
-          }
-          v = v * 16 + d;
-        }
-        if (ok && len - 2 > 13) fnBig = BigInt(valText());
-        else fnNum = v;
+    k = col[COL_FN]!;
+    if (k >= 0 && ce[k]! > cs[k]!) {
+      s = cs[k]!;
+      e = ce[k]!;
+      fn = functionIn(buf, s, e);
+      if (fn === -1) {
+        const text = decode(buf, s, e);
+        return problem("function", text, `function ${JSON.stringify(text)} is not a number (write hex as 0x100)`);
       }
-      if (!ok && len <= 39) {
-        ok = true;
-        let v = 0;
-        for (let k = vs; k < ve; k++) {
-          const c = valBuf[k]!;
-          if (c < 48 || c > 57) {
-            ok = false;
-            break;
-          }
-          v = v * 10 + (c - 48);
-        }
-        if (ok && len > 15) fnBig = BigInt(valText());
-        else fnNum = v;
-      }
-      if (!ok) {
-        const text = valText();
-        return bad("function", text, `function ${JSON.stringify(text)} is not a number (write hex as 0x100)`);
-      }
+      if (fn === -2) fnBig = BigInt(decode(buf, s, e));
     }
     // structure: all four or none
     let structure = -1;
-    if (col[COL_B]! >= 0 || col[COL_N]! >= 0 || col[COL_F]! >= 0 || col[COL_A]! >= 0) {
+    if (hasStructure) {
       let any = false;
-      for (let k = 0; k < 4 && !any; k++) if (get(COL_B + k) && ve > vs) any = true;
+      for (let q = 0; q < 4 && !any; q++) {
+        k = col[COL_B + q]!;
+        any = k >= 0 && ce[k]! > cs[k]!;
+      }
       if (any) {
-        let key = 0;
-        for (let k = 0; k < 4; k++) {
-          const present = get(COL_B + k);
-          const v = present ? digits(3) : -1;
+        let sk = 0;
+        for (let q = 0; q < 4; q++) {
+          k = col[COL_B + q]!;
+          const v = k >= 0 ? digitsIn(buf, cs[k]!, ce[k]!, 3) : -1;
           if (v < 0 || v > 128) {
-            const name = STRUCT_COLUMNS[k]!;
-            const text = present ? valText() : "";
-            return bad(name, text, `${name} ${JSON.stringify(text)} is not a whole number 0..128`);
+            const name = STRUCT_COLUMNS[q]!;
+            const text = k >= 0 ? decode(buf, cs[k]!, ce[k]!) : "";
+            return problem(name, text, `${name} ${JSON.stringify(text)} is not a whole number 0..128`);
           }
-          key = key * 256 + v;
+          sk = sk * 256 + v;
         }
-        let sid = structById.get(key);
-        if (sid === undefined) {
-          const st = { block: (key >>> 24) & 255, node: (key >>> 16) & 255, function: (key >>> 8) & 255, argument: key & 255 };
-          sid = t.internStructure(st, structIds);
-          structById.set(key, sid);
+        if (sk !== lastStructKey) {
+          let sid = structById.get(sk);
+          if (sid === undefined) {
+            const st = { block: (sk >>> 24) & 255, node: (sk >>> 16) & 255, function: (sk >>> 8) & 255, argument: sk & 255 };
+            sid = t.internStructure(st, structIds);
+            structById.set(sk, sid);
+          }
+          lastStructKey = sk;
+          lastStruct = sid;
         }
-        structure = sid;
+        structure = lastStruct;
       }
     }
-    // context (checked on bytes: ';' and '=' are ASCII, so this is parseContext's own test)
-    if (!get(COL_CTX)) vs = ve = 0; // an absent column reads as ""
-    // contexts seldom repeat the row before (and differ near their end), so no last-value check
-    const cid = ctxIds.intern(valBuf, vs, ve);
-    if (cid === ctxValid.length) ctxValid.push(contextBytesValid(valBuf, vs, ve) ? 1 : 0);
-    if (ctxValid[cid] === 0) return bad("context", ctxIds.text(cid), "context must be key=value pairs joined with ';'");
+    // context (checked on bytes: ';' and '=' are ASCII, so this is parseContext's own test); an
+    // absent column reads as ""; contexts seldom repeat the row before, so no last-value check
+    k = col[COL_CTX]!;
+    s = k >= 0 ? cs[k]! : 0;
+    e = k >= 0 ? ce[k]! : 0;
+    const cid = ctxIds.intern(buf, bufView, s, e);
+    if (cid >= ctxValid.length) ctxValid = growU8(ctxValid);
+    if (ctxValid[cid] === 0) ctxValid[cid] = contextBytesValid(buf, s, e) ? 1 : 2;
+    if (ctxValid[cid] === 2) return problem("context", ctxIds.text(cid), "context must be key=value pairs joined with ';'");
     // flavors
-    if (!get(COL_FLAV)) vs = ve = 0;
-    const fid = internCol(COL_FLAV, flavorIds);
+    k = col[COL_FLAV]!;
+    s = k >= 0 ? cs[k]! : 0;
+    e = k >= 0 ? ce[k]! : 0;
+    const fid = flavorIds.internCell(buf, bufView, s, e);
     if (fid === t.flavorSets.length) {
       const list = flavorIds
         .text(fid)
@@ -1053,6 +1269,7 @@ export function readCsvPacked(bytes: Uint8Array, plan = ""): PackedReadResult {
       t.nodeNames.push(nodeIds.text(nodeKey));
       nodeOfIntern[nodeKey] = nid;
     }
+    const i = t.count;
     t.w0[i] = sw0;
     t.w1[i] = sw1;
     t.w2[i] = sw2;
@@ -1067,7 +1284,7 @@ export function readCsvPacked(bytes: Uint8Array, plan = ""): PackedReadResult {
         t.fn[i] = NaN;
         t.bigFunctions.set(i, fnBig);
       }
-    } else t.fn[i] = fnNum;
+    } else t.fn[i] = fn;
     t.structure[i] = structure;
     t.context[i] = cid;
     t.flavorSet[i] = fid;
@@ -1075,157 +1292,158 @@ export function readCsvPacked(bytes: Uint8Array, plan = ""): PackedReadResult {
     t.row[i] = row;
     let loc = -1;
     if (prefix >= 0) {
-      const k = nid * 256 + algorithm;
-      let list = owned.get(k);
-      if (!list) owned.set(k, (list = []));
-      for (let q = 0; q < list.length; q += 2) if (list[q] === prefix) loc = list[q + 1]!;
-      if (loc < 0) {
-        loc = t.addLocator(nid, algorithm, prefix);
-        list.push(prefix, loc);
+      // most rows name the locator of the row before
+      if (prefix === lastLocPrefix && nid === lastLocNode && algorithm === lastLocAlg) loc = lastLoc;
+      else {
+        keyView.setInt32(0, nid);
+        keyView.setInt32(4, algorithm);
+        keyView.setInt32(8, prefix);
+        loc = owned.intern(key, keyView, 0, 12);
+        if (loc === t.locatorCount) t.addLocator(nid, algorithm, prefix);
+        lastLocPrefix = prefix;
+        lastLocNode = nid;
+        lastLocAlg = algorithm;
+        lastLoc = loc;
       }
     }
     t.locator[i] = loc;
     t.count++;
   };
 
+  const onRecord = (buf: Uint8Array, bufView: DataView, cells: number, line: number, plain = false) => {
+    if (fatal) return;
+    if (header) onData(buf, bufView, cells, line, plain);
+    else onHeader(buf, cells, line);
+  };
+
   const onError = (line: number, message: string) => {
     // a broken record still counts as a row, so later rows keep their numbers (as readCsvTable)
     if (header) {
       row++;
-      if (row >= lineOfRow.length) lineOfRow = growI32(lineOfRow);
-      lineOfRow[row] = line;
+      lineOfRow.note(row, line);
     }
     problems.push({ row: header ? row : 0, field: "", message: `${message} (line ${line})`, value: "" });
   };
 
-  const pushCell = (s: number, e: number) => {
-    if (cells >= cs.length) {
-      cs = growI32(cs);
-      ce = growI32(ce);
-    }
-    cs[cells] = s;
-    ce[cells] = e;
-    cells++;
-  };
-  const scratchPut = (c: number) => {
-    if (scratchUsed >= scratch.length) {
-      const s = new Uint8Array(scratch.length * 2);
-      s.set(scratch);
-      scratch = s;
-    }
-    scratch[scratchUsed++] = c;
-  };
-
-  // The record splitter: the same two paths as splitCsv in table-read.ts, on bytes.
-  let i = i0;
-  let line = 1;
-  while (i < n) {
-    const start = i;
-    const recordLine = line;
-    // one pass over the line: commas make cells; a quote sends the record to the slow path
-    cells = 0;
-    let s = start;
-    let k = start;
-    let quoted = false;
-    for (; k < n; k++) {
-      const c = bytes[k]!;
-      if (c === 44) {
-        if (cells >= cs.length) {
-          cs = growI32(cs);
-          ce = growI32(ce);
-        }
-        cs[cells] = s;
-        ce[cells++] = k;
-        s = k + 1;
-      } else if (c === 10) break;
-      else if (c === 34) {
-        quoted = true;
-        break;
-      }
-    }
-    if (!quoted) {
-      const eol = k;
-      let lineEnd = eol;
-      if (lineEnd > start && bytes[lineEnd - 1] === 13) lineEnd--;
-      i = eol + 1;
-      line++;
-      if (lineEnd === start) continue;
-      cur = bytes;
-      // the last cell ends at the line end (a CR before the LF is not part of it)
-      pushCell(s, lineEnd);
-      onRecord(recordLine);
-      continue;
-    }
-    // slow path: quoted fields, cells are built in the scratch buffer
-    cur = scratch;
-    scratchUsed = 0;
-    cells = 0;
+  /** Set by readQuoted: the line after the record it read. */
+  let lineAfterQuoted = 0;
+  /**
+   * The record at `start` (on line `recordLine`) that has a quote, as splitCsv's slow path reads
+   * it, into the scratch buffer; returns where the next record starts, or -1 when the file ends
+   * inside quotes (after noting the problem). Not in the loop below: closures there would make
+   * every line of the file allocate their scope.
+   */
+  const readQuoted = (start: number, recordLine: number): number => {
+    let line = recordLine;
+    let i = start;
+    let cells = 0;
     let cellStart = 0;
+    scratchUsed = 0;
+    const endCell = () => {
+      if (cells >= cs.length) {
+        cs = growI32(cs);
+        ce = growI32(ce);
+      }
+      cs[cells] = cellStart;
+      ce[cells++] = scratchUsed;
+      cellStart = scratchUsed;
+    };
+    const put = (c: number) => {
+      if (scratchUsed >= scratch.length) {
+        const g = new Uint8Array(scratch.length * 2);
+        g.set(scratch);
+        scratch = g;
+        scratchView = new DataView(g.buffer);
+      }
+      scratch[scratchUsed++] = c;
+    };
     let inQuotes = false;
-    let closed = false;
-    i = start;
     for (; i < n; i++) {
       const c = bytes[i]!;
       if (inQuotes) {
         if (c === 34) {
           if (bytes[i + 1] === 34) {
-            scratchPut(34);
+            put(34);
             i++;
           } else inQuotes = false;
         } else {
           if (c === 10) line++;
-          scratchPut(c);
+          put(c);
         }
       } else if (c === 34) {
         if (scratchUsed > cellStart) {
           onError(recordLine, `a quote inside an unquoted field (column ${cells + 1}); quote the whole field and double inner quotes`);
           while (i < n && bytes[i] !== 10) i++;
-          line++;
-          i++;
-          closed = true;
-          break;
+          lineAfterQuoted = line + 1;
+          return i + 1;
         }
         inQuotes = true;
-      } else if (c === 44) {
-        cur = scratch;
-        pushCell(cellStart, scratchUsed);
-        cellStart = scratchUsed;
-      } else if (c === 10 || c === 13) {
+      } else if (c === 44) endCell();
+      else if (c === 10 || c === 13) {
         if (c === 13 && bytes[i + 1] === 10) i++;
-        i++;
-        line++;
-        closed = true;
-        pushCell(cellStart, scratchUsed);
-        cur = scratch;
-        onRecord(recordLine);
-        break;
-      } else scratchPut(c);
+        lineAfterQuoted = line + 1;
+        endCell();
+        onRecord(scratch, scratchView, cells, recordLine);
+        return i + 1;
+      } else put(c);
     }
-    if (!closed) {
-      if (inQuotes) {
-        onError(recordLine, "a quoted field is not closed before the end of the file");
-        break;
+    lineAfterQuoted = line;
+    if (inQuotes) {
+      onError(recordLine, "a quoted field is not closed before the end of the file");
+      return -1;
+    }
+    endCell();
+    onRecord(scratch, scratchView, cells, recordLine);
+    return n;
+  };
+
+  // The record splitter: the same two paths as splitCsv in table-read.ts, on bytes. Line ends
+  // and quotes are found with indexOf (memchr), so the loop over a line's bytes looks for commas only.
+  let nextQuote = -1;
+  let i = i0;
+  let line = 1;
+  while (i < n) {
+    const start = i;
+    const recordLine = line;
+    let eol = bytes.indexOf(10, start);
+    if (eol < 0) eol = n;
+    if (nextQuote < start) {
+      nextQuote = bytes.indexOf(34, start);
+      if (nextQuote < 0) nextQuote = n;
+    }
+    if (nextQuote >= eol) {
+      // no quote on the line: commas make cells, and the last cell ends at the line end (a CR
+      // before the LF is not part of it)
+      let lineEnd = eol;
+      if (lineEnd > start && bytes[lineEnd - 1] === 13) lineEnd--;
+      i = eol + 1;
+      line++;
+      if (lineEnd === start) continue;
+      let cells = splitCommas(bytes, view, start, lineEnd, cs, ce);
+      while (cells < 0) {
+        cs = growI32(cs);
+        ce = growI32(ce);
+        cells = splitCommas(bytes, view, start, lineEnd, cs, ce);
       }
-      pushCell(cellStart, scratchUsed);
-      cur = scratch;
-      onRecord(recordLine);
+      onRecord(bytes, view, cells, recordLine, splitPlain);
+      continue;
     }
+    // slow path: quoted fields, cells are built in the scratch buffer
+    i = readQuoted(start, recordLine);
+    line = lineAfterQuoted;
+    if (i < 0) break;
   }
   if (!header && !fatal) {
     problems.push({ row: 0, field: "", message: `the table has no header line; the first line must name the columns (required: ${REQUIRED_COLUMNS.join(", ")})`, value: "" });
     fatal = true;
   }
+  for (const it of [nodeIds, behaviorIds, flavorIds, ctxIds, prefixTexts, prefixByValue, owned]) it.seal();
   t.setContextSource(ctxIds);
-  const lines = lineOfRow;
   const rows = row;
   return {
     table: t,
     problems,
     unreadable: fatal,
-    lineOf: (r) => {
-      if (!Number.isInteger(r) || r < 0 || r > rows) return undefined;
-      const l = lines[r]!;
-      return l > 0 ? l : undefined;
-    },
+    lineOf: (r) => (Number.isInteger(r) && r >= 0 && r <= rows ? lineOfRow.lineOf(r) : undefined),
   };
 }
