@@ -1,4 +1,5 @@
 /** Algorithms are 0 (SPF), 1 (strict SPF) or a Flexible Algorithm 128-255; 2-127 are unassigned. */
+import { compareSids } from "../shared/sids.js";
 import type { Rule } from "../types.js";
 
 /** IANA IGP Algorithm Types: 0 and 1 assigned, 2-127 unassigned, 128-255 Flexible Algorithms (RFC 9350 §4). */
@@ -31,21 +32,35 @@ export const algorithmValue: Rule = {
       return;
     }
     // Table: one finding per node and algorithm, located at the node's first row with it.
-    const groups = new Map<string, { node: string; algorithm: number; sids: number; locators: number; row: number | undefined }>();
-    const get = (node: string, algorithm: number) => {
-      const key = `${node}|${algorithm}`;
+    const t = ctx.packed.table;
+    const rank = t.nodeRank;
+    // lead: the group's first SID in ctx.sids order, or -1 when a locator made the group
+    const groups = new Map<number, { node: string; algorithm: number; sids: number; locators: number; row: number | undefined; lead: number }>();
+    const get = (nodeId: number, algorithm: number, lead: number) => {
+      const key = (algorithm - 2) * rank.length + rank[nodeId]!;
       let g = groups.get(key);
-      if (!g) groups.set(key, (g = { node, algorithm, sids: 0, locators: 0, row: undefined }));
+      if (!g) groups.set(key, (g = { node: t.nodeNames[nodeId]!, algorithm, sids: 0, locators: 0, row: undefined, lead }));
       return g;
     };
-    for (const l of ctx.locators) if (isUnassigned(l.entry.algorithm)) get(l.node, l.entry.algorithm).locators++;
-    for (const s of ctx.sids) {
-      if (!isUnassigned(s.entry.algorithm)) continue; // IANA IGP Algorithm Types
-      const g = get(s.node, s.entry.algorithm);
-      g.sids++;
-      if (s.entry.row !== undefined && (g.row === undefined || s.entry.row < g.row)) g.row = s.entry.row;
+    for (const id of ctx.packed.locatorOrder) {
+      const a = t.locAlgorithm[id]!;
+      if (isUnassigned(a)) get(t.locNode[id]!, a, -1).locators++;
     }
-    for (const g of groups.values()) {
+    const algorithms = t.algorithm;
+    for (let i = 0; i < t.count; i++) {
+      const a = algorithms[i]!;
+      if (!isUnassigned(a)) continue; // IANA IGP Algorithm Types
+      const g = get(t.node[i]!, a, i);
+      g.sids++;
+      if (g.lead >= 0 && compareSids(t, i, g.lead) < 0) g.lead = i;
+      const row = t.row[i]!;
+      if (row > 0 && (g.row === undefined || row < g.row)) g.row = row;
+    }
+    // groups in the order the object rule made them: the locators' first, then by first SID
+    const ordered = [...groups.values()];
+    const fromSids = ordered.filter((g) => g.lead >= 0).sort((x, y) => compareSids(t, x.lead, y.lead));
+    const list = [...ordered.filter((g) => g.lead < 0), ...fromSids];
+    for (const g of list) {
       ctx.report({
         message: `${g.node} uses the unassigned algorithm ${g.algorithm} (${g.locators} locator${g.locators === 1 ? "" : "s"}, ${g.sids} SID${g.sids === 1 ? "" : "s"}); use 0 (SPF), 1 (strict SPF) or a Flex-Algo 128-255`,
         location: g.row !== undefined ? { file: ctx.input.file, row: g.row, field: "algorithm" } : ctx.locateNode(g.node),

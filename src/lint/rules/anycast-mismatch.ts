@@ -1,11 +1,13 @@
 /** All nodes sharing an anycast locator instantiate the same SIDs under it. */
-import type { Prefix } from "../../net/prefix.js";
-import { formatAddr } from "../../net/text.js";
-import type { OwnedSid, Rule } from "../types.js";
-import { locatorsByPrefix } from "./locator-outside-block.js";
+import type { PackedSidTable } from "../../sid/packed.js";
+import type { Rule } from "../types.js";
+import { locatorGroups, sidsByNode, sidsOfNodeIn } from "../shared/locators.js";
 
 /** What must be equal across members: the address and what it does (behaviour, flavours, algorithm). */
-const signature = (s: OwnedSid) => `${formatAddr(s.entry.sid)} ${s.entry.behavior}${s.entry.flavors.length ? "+" + [...s.entry.flavors].sort().join("+") : ""} a${s.entry.algorithm}`;
+const signature = (t: PackedSidTable, i: number) => {
+  const flavors = t.flavorSets[t.flavorSet[i]!]!;
+  return `${t.formatSid(i)} ${t.behaviors[t.behavior[i]!]}${flavors.length ? "+" + [...flavors].sort().join("+") : ""} a${t.algorithm[i]}`;
+};
 
 export const anycastMismatch: Rule = {
   meta: {
@@ -21,34 +23,16 @@ export const anycastMismatch: Rule = {
     const plan = ctx.input.plan;
     const planNode = new Map(plan?.nodes.map((n) => [n.name, n]) ?? []);
     const groupIndex = new Map(plan?.anycast.map((a, i) => [a.name, i]) ?? []);
-    const inTable = new Set(ctx.input.table.nodes.map((n) => n.node));
+    const t = ctx.packed.table;
+    const inTable = new Set(t.nodeNames);
+    // SIDs per node in address order, for range queries.
+    const byNode = sidsByNode(ctx);
 
-    // SIDs per node, in address order (ctx.sids is sorted), for range queries.
-    const sidsOf = new Map<string, OwnedSid[]>();
-    for (const s of ctx.sids) {
-      const list = sidsOf.get(s.node) ?? [];
-      list.push(s);
-      sidsOf.set(s.node, list);
-    }
-    const under = (node: string, p: Prefix): OwnedSid[] => {
-      const list = sidsOf.get(node) ?? [];
-      let lo = 0;
-      let hi = list.length;
-      while (lo < hi) {
-        const mid = (lo + hi) >> 1;
-        if (list[mid]!.entry.sid < p.first) lo = mid + 1;
-        else hi = mid;
-      }
-      const out: OwnedSid[] = [];
-      for (let i = lo; i < list.length && list[i]!.entry.sid <= p.last; i++) out.push(list[i]!);
-      return out;
-    };
-
-    for (const g of locatorsByPrefix(ctx)) {
-      const holders = g.holders.map((h) => h.node);
+    for (const g of locatorGroups(ctx)) {
+      const holders = g.nodes;
       // The plan anycast group of this locator: named on the locator (plan, JSON tables), or the
       // group that at least one holder of a shared locator belongs to.
-      let group = g.holders.map((h) => h.entry.anycast).find((a) => a !== "");
+      let group = g.anycast !== "" ? g.anycast : undefined;
       if (group === undefined && holders.length > 1) group = plan?.anycast.find((a) => holders.some((h) => a.members.includes(h)))?.name;
       if (holders.length < 2 && group === undefined) continue; // a node-specific locator
       const members = new Set(holders);
@@ -58,17 +42,17 @@ export const anycastMismatch: Rule = {
         if (inTable.has(m) && (planNode.get(m)?.algorithms ?? [g.algorithm]).includes(g.algorithm)) members.add(m);
       }
       if (members.size < 2) continue;
-      const sets = new Map<string, { sids: OwnedSid[]; sigs: Set<string> }>();
-      const union = new Map<string, OwnedSid>();
+      const sets = new Map<string, { sids: number[]; sigs: Set<string> }>();
+      const union = new Set<string>();
       for (const m of [...members].sort()) {
-        const sids = under(m, g.prefix);
-        const sigs = new Set(sids.map(signature));
+        const sids = sidsOfNodeIn(t, byNode, m, g.range);
+        const sigs = new Set(sids.map((i) => signature(t, i)));
         sets.set(m, { sids, sigs });
-        for (const s of sids) if (!union.has(signature(s))) union.set(signature(s), s);
+        for (const x of sigs) union.add(x);
       }
       const short: { node: string; missing: string[] }[] = [];
       for (const [m, { sigs }] of sets) {
-        const missing = [...union.keys()].filter((k) => !sigs.has(k));
+        const missing = [...union].filter((k) => !sigs.has(k));
         if (missing.length > 0) short.push({ node: m, missing });
       }
       if (short.length === 0) continue;
@@ -80,8 +64,8 @@ export const anycastMismatch: Rule = {
       const location =
         !ctx.input.fromTable && group !== undefined && groupIndex.has(group)
           ? ctx.locatePlan(["anycast", groupIndex.get(group)!])
-          : firstSid
-            ? ctx.locateSid(firstSid)
+          : firstSid !== undefined
+            ? ctx.locateSidAt(firstSid)
             : ctx.locateNode(first.node);
       const detail = short
         .slice(0, 3)

@@ -1,8 +1,8 @@
 /** Argument bits only on behaviours that take an argument: End.DT2M needs them, the others take none. */
-import { formatAddr } from "../../net/text.js";
 import { BEHAVIORS, isBehaviorName } from "../../sid/behaviors.js";
-import type { OwnedSid, Rule } from "../types.js";
-import { blockScope, csidFlavorOf } from "./csid-length.js";
+import { type ScopeBlock, blockScope, csidFlavorCodes } from "../shared/csid.js";
+import { SidGroups, sidKinds, sidsOfKinds } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 export const argumentUse: Rule = {
   meta: {
@@ -15,46 +15,54 @@ export const argumentUse: Rule = {
     needs: "table",
   },
   check(ctx) {
-    const scopeOf = blockScope(ctx);
-    const groups = new Map<string, { first: OwnedSid; count: number; kind: "unexpected" | "missing"; block?: { name: string; index: number; path: (string | number)[] } }>();
-    for (const s of ctx.sids) {
-      const st = s.entry.structure;
-      const b = s.entry.behavior;
-      if (!st || !isBehaviorName(b)) continue;
-      if (csidFlavorOf(s.entry.flavors) !== undefined) continue; // RFC 9800 §8: AL = 128 - LBL - LNL - FL
+    const t = ctx.packed.table;
+    const codes = csidFlavorCodes(ctx);
+    const kinds = sidKinds(ctx);
+    // per kind of SID, judged once: 0 fine, 1 unexpected argument, 2 missing argument
+    const FOUND = [undefined, "unexpected", "missing"] as const;
+    const judged = Uint8Array.from({ length: kinds.count }, (_, k) => {
+      const stId = kinds.structure[k]!;
+      const b = t.behaviors[kinds.behavior[k]!]!;
+      if (stId < 0 || !isBehaviorName(b)) return 0;
+      if (codes[kinds.flavorSet[k]!] !== 0) return 0; // RFC 9800 §8: AL = 128 - LBL - LNL - FL
       const takes = BEHAVIORS[b].argument;
-      let kind: "unexpected" | "missing";
-      if (takes === "none" && st.argument > 0) kind = "unexpected"; // RFC 9252 §3.2.1: AL MUST be 0 without an argument
-      else if (takes === "required" && st.argument === 0) kind = "missing"; // RFC 8986 §4.12: Arg.FE2
-      else continue;
-      const scope = scopeOf(s);
-      const key = `${scope.key}|${b}|${st.argument}`;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1, kind, block: scope.block });
-      else {
-        g.count++;
-        if (s.entry.row !== undefined && g.first.entry.row !== undefined && s.entry.row < g.first.entry.row) g.first = s;
-      }
+      const st = t.structures[stId]!;
+      if (takes === "none" && st.argument > 0) return 1; // RFC 9252 §3.2.1: AL MUST be 0 without an argument
+      if (takes === "required" && st.argument === 0) return 2; // RFC 8986 §4.12: Arg.FE2
+      return 0;
+    });
+    if (judged.every((k) => k === 0)) return;
+    const scopes = blockScope(ctx);
+    const groups = new SidGroups<{ kind: "unexpected" | "missing"; block: ScopeBlock | undefined }>(t);
+    for (const i of sidsOfKinds(kinds, judged.map((k) => (k === 0 ? 0 : 1)))) {
+      const k = judged[kinds.of[i]!]!;
+      const scope = scopes.of(i);
+      const key = (t.behavior[i]! * 129 + t.structures[t.structure[i]!]!.argument) * scopes.count + scope;
+      groups.add(key, i, { kind: FOUND[k]!, block: scopes.block(scope) });
     }
-    for (const g of groups.values()) {
-      const e = g.first.entry;
-      const sid = formatAddr(e.sid);
-      const where = g.block ? `block ${g.block.name}` : g.first.node;
-      const n = `${g.count} ${e.behavior} SID${g.count > 1 ? "s" : ""} of ${where} (e.g. ${sid})`;
+    for (const g of groups.ordered()) {
+      const i = g.first;
+      const node = t.nodeOf(i);
+      const behavior = t.behaviors[t.behavior[i]!]!;
+      const argumentBits = t.structures[t.structure[i]!]!.argument;
+      const sid = t.formatSid(i);
+      const { kind, block } = g.data;
+      const where = block ? `block ${block.name}` : node;
+      const n = `${g.count} ${behavior} SID${g.count > 1 ? "s" : ""} of ${where} (e.g. ${sid})`;
       ctx.report({
         message:
-          g.kind === "unexpected"
-            ? `${n} have ${e.structure!.argument} argument bits, but ${e.behavior} takes no argument; the argument length must be 0`
+          kind === "unexpected"
+            ? `${n} have ${argumentBits} argument bits, but ${behavior} takes no argument; the argument length must be 0`
             : `${n} have no argument bits, but End.DT2M takes the Arg.FE2 argument`,
-        location: g.block ? ctx.locatePlan(g.block.path) : ctx.locateSid(g.first),
-        objects: g.block ? [g.block.name, g.first.node, sid] : [g.first.node, sid],
+        location: block ? ctx.locatePlan(block.path) : ctx.locateSidAt(i),
+        objects: block ? [block.name, node, sid] : [node, sid],
         hint:
-          g.kind === "unexpected"
+          kind === "unexpected"
             ? "advertise the SID with argument length 0 (only End.DT2M and compressed SIDs carry an argument)"
-            : g.block
+            : block
               ? "give the block argument bits for End.DT2M (the argument key of its structure or compression)"
               : "advertise End.DT2M with the argument length its Arg.FE2 uses",
-        data: { ...(g.block ? { block: g.block.name } : {}), node: g.first.node, sid, behavior: e.behavior, argumentBits: e.structure!.argument, kind: g.kind, count: g.count },
+        data: { ...(block ? { block: block.name } : {}), node, sid, behavior, argumentBits, kind, count: g.count },
       });
     }
   },

@@ -1,7 +1,7 @@
 /** Every SID's behaviour is a name from the IANA SRv6 Endpoint Behaviors registry. */
-import { formatAddr } from "../../net/text.js";
 import { BEHAVIOR_NAMES, classifyCodepoint, isBehaviorName } from "../../sid/behaviors.js";
-import type { OwnedSid, Rule } from "../types.js";
+import { SidGroups, nodeKeyOf } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 /**
  * Names printed by mistake in published texts, with the behaviour they mean:
@@ -44,36 +44,38 @@ export const behaviorUnknown: Rule = {
   },
   check(ctx) {
     const other = registeredElsewhere();
-    const groups = new Map<string, { first: OwnedSid; count: number }>();
-    for (const s of ctx.sids) {
-      const b = s.entry.behavior;
-      if (isBehaviorName(b) || other.has(b)) continue; // IANA SRv6 Endpoint Behaviors registry
-      const key = `${s.node}|${b}`;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1 });
-      else {
-        g.count++;
-        if (s.entry.row !== undefined && g.first.entry.row !== undefined && s.entry.row < g.first.entry.row) g.first = s;
-      }
+    const t = ctx.packed.table;
+    // per behaviour name, once: IANA SRv6 Endpoint Behaviors registry
+    const unknown = Uint8Array.from(t.behaviors, (b) => (isBehaviorName(b) || other.has(b) ? 0 : 1));
+    if (!unknown.includes(1)) return;
+    const groups = new SidGroups(t);
+    const nodes = t.nodeNames.length;
+    for (let i = 0; i < t.count; i++) {
+      const bid = t.behavior[i]!;
+      if (unknown[bid] === 1) groups.add(bid * nodes + nodeKeyOf(t, i), i, undefined);
     }
-    for (const g of groups.values()) {
-      const e = g.first.entry;
-      const sid = formatAddr(e.sid);
-      const misprint = MISPRINTS.get(e.behavior);
-      const byCase = BY_LOWER.get(e.behavior.trim().toLowerCase());
-      const byCodepoint = e.codepoint !== undefined ? classifyCodepoint(e.codepoint) : undefined;
+    for (const g of groups.ordered()) {
+      const i = g.first;
+      const node = t.nodeOf(i);
+      const behavior = t.behaviors[t.behavior[i]!]!;
+      const cp = t.codepoint[i]!;
+      const codepoint = Number.isNaN(cp) ? undefined : cp;
+      const sid = t.formatSid(i);
+      const misprint = MISPRINTS.get(behavior);
+      const byCase = BY_LOWER.get(behavior.trim().toLowerCase());
+      const byCodepoint = codepoint !== undefined ? classifyCodepoint(codepoint) : undefined;
       const suggestion = misprint?.name ?? byCase ?? (byCodepoint?.kind === "behavior" ? byCodepoint.behavior : undefined);
       let hint: string;
-      if (misprint) hint = `"${e.behavior}" is a misprint in ${misprint.where}; the registry name is "${misprint.name}"`;
+      if (misprint) hint = `"${behavior}" is a misprint in ${misprint.where}; the registry name is "${misprint.name}"`;
       else if (byCase) hint = `write "${byCase}" (behaviour names are case-sensitive)`;
-      else if (suggestion) hint = `codepoint ${e.codepoint} is "${suggestion}" in the registry; write that name`;
+      else if (suggestion) hint = `codepoint ${codepoint} is "${suggestion}" in the registry; write that name`;
       else hint = `write one of ${BEHAVIOR_NAMES.join(", ")}`;
       ctx.report({
-        message: `${g.count} SID${g.count > 1 ? "s" : ""} of ${g.first.node} (e.g. ${sid}) have the unknown behaviour ${JSON.stringify(e.behavior)}`,
-        location: ctx.locateSid(g.first),
-        objects: [g.first.node, sid],
+        message: `${g.count} SID${g.count > 1 ? "s" : ""} of ${node} (e.g. ${sid}) have the unknown behaviour ${JSON.stringify(behavior)}`,
+        location: ctx.locateSidAt(i),
+        objects: [node, sid],
         hint,
-        data: { node: g.first.node, sid, behavior: e.behavior, ...(suggestion ? { suggestion } : {}), count: g.count },
+        data: { node, sid, behavior, ...(suggestion ? { suggestion } : {}), count: g.count },
       });
     }
   },

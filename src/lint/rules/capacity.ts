@@ -8,7 +8,7 @@ import { getField } from "../../net/uint128.js";
 import type { SourceLocation } from "../../plan/diagnostic.js";
 import type { PoolKind } from "../../plan/model.js";
 import type { Rule } from "../types.js";
-import { PrefixIndex } from "./locator-outside-block.js";
+import { PrefixIndex, sidField, wordRangeAt } from "../shared/prefixes.js";
 
 /** Share of a capacity, for messages: "13 of 15 (87 %)". */
 const share = (used: bigint, cap: bigint) => `${used} of ${cap} (${cap > 0n ? Math.floor(Number((used * 1000n) / cap)) / 10 : 100} %)`;
@@ -69,35 +69,51 @@ export const capacity: Rule = {
     // (node + function) is global.
     const compressed = plan.blocks.filter((b) => b.layout.kind === "compressed");
     if (compressed.length === 0) return;
+    const { table: t, locatorOrder } = ctx.packed;
     const index = new PrefixIndex(compressed.map((b) => ({ prefix: b.prefix, value: b })));
-    const globals = new Map<string, Set<bigint>>();
-    const locals = new Map<string, Map<string, Set<bigint>>>(); // block -> "node|locator" -> local C-SIDs
-    for (const l of ctx.locators) {
-      const b = index.containing(l.entry.prefix)?.value;
+    // C-SID values: numbers for C-SIDs of up to 32 bits (bigints beyond), one kind per block
+    const globals = new Map<string, Set<number | bigint>>();
+    const locals = new Map<string, Map<string, Set<number | bigint>>>(); // block -> "node|locator" -> local C-SIDs
+    for (const id of locatorOrder) {
+      const prefix = t.prefixes[t.locPrefix[id]!]!;
+      const b = index.containingRange(wordRangeAt(t, t.locPrefix[id]!))?.value;
       if (!b || b.layout.kind !== "compressed" || !b.layout.twoCsid) continue;
       const L = b.layout;
-      if (l.entry.prefix.len < L.blockBits + L.csidBits) continue;
-      const set = globals.get(b.name) ?? new Set<bigint>();
-      set.add(getField(l.entry.prefix.first, L.blockBits, L.csidBits));
+      if (prefix.len < L.blockBits + L.csidBits) continue;
+      const set = globals.get(b.name) ?? new Set<number | bigint>();
+      set.add(getField(prefix.first, L.blockBits, L.csidBits));
       globals.set(b.name, set);
     }
-    for (const s of ctx.sids) {
-      const b = index.containingAddr(s.entry.sid)?.value;
+    // The local C-SIDs of one node and global C-SID: SIDs of one locator are mostly neighbours,
+    // so the set is looked up only when the node or global C-SID changes.
+    let lastNode = -1;
+    let lastGlobal: number | bigint = -1;
+    let lastBlock = "";
+    let lastSet: Set<number | bigint> | undefined;
+    for (let i = 0; i < t.count; i++) {
+      const b = index.containingSid(t, i)?.value;
       if (!b || b.layout.kind !== "compressed") continue;
       const L = b.layout;
       if (L.twoCsid) {
         if (L.blockBits + 2 * L.csidBits > 128) continue;
-        const local = getField(s.entry.sid, L.blockBits + L.csidBits, L.csidBits);
-        if (local === 0n) continue; // the node's own End SID: global C-SID alone (RFC 9800 §8)
-        const key = `${s.node}|${getField(s.entry.sid, L.blockBits, L.csidBits).toString(16)}`;
-        const perNode = locals.get(b.name) ?? new Map<string, Set<bigint>>();
-        const set = perNode.get(key) ?? new Set<bigint>();
-        set.add(local);
-        perNode.set(key, set);
-        locals.set(b.name, perNode);
+        const local = sidField(t, i, L.blockBits + L.csidBits, L.csidBits);
+        if (local === 0 || local === 0n) continue; // the node's own End SID: global C-SID alone (RFC 9800 §8)
+        const g = sidField(t, i, L.blockBits, L.csidBits);
+        const n = t.node[i]!;
+        if (!lastSet || n !== lastNode || g !== lastGlobal || b.name !== lastBlock) {
+          const key = `${t.nodeNames[n]}|${g.toString(16)}`;
+          const perNode = locals.get(b.name) ?? new Map<string, Set<number | bigint>>();
+          lastSet = perNode.get(key) ?? new Set<number | bigint>();
+          perNode.set(key, lastSet);
+          locals.set(b.name, perNode);
+          lastNode = n;
+          lastGlobal = g;
+          lastBlock = b.name;
+        }
+        lastSet.add(local);
       } else {
-        const set = globals.get(b.name) ?? new Set<bigint>();
-        set.add(getField(s.entry.sid, L.blockBits, L.csidBits));
+        const set = globals.get(b.name) ?? new Set<number | bigint>();
+        set.add(sidField(t, i, L.blockBits, L.csidBits));
         globals.set(b.name, set);
       }
     }
@@ -113,7 +129,7 @@ export const capacity: Rule = {
       if (!b.layout.twoCsid || lib === 0n) continue;
       let fullest = "";
       let max = 0n;
-      for (const [key, set] of [...(locals.get(b.name) ?? new Map<string, Set<bigint>>()).entries()].sort(([a], [c]) => (a < c ? -1 : a > c ? 1 : 0))) {
+      for (const [key, set] of [...(locals.get(b.name) ?? new Map<string, Set<number | bigint>>()).entries()].sort(([a], [c]) => (a < c ? -1 : a > c ? 1 : 0))) {
         if (BigInt(set.size) > max) {
           max = BigInt(set.size);
           fullest = key.slice(0, key.lastIndexOf("|"));

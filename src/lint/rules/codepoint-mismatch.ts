@@ -1,7 +1,7 @@
 /** A row's codepoint is the one the IANA registry gives its behaviour and flavours. */
-import { formatAddr } from "../../net/text.js";
 import { type Flavor, classifyCodepoint, codepointOf, isBehaviorName, parseFlavor } from "../../sid/behaviors.js";
-import type { OwnedSid, Rule } from "../types.js";
+import { Interner, SidGroups, nodeKeyOf, sidKinds, sidsOfKinds } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 export const codepointMismatch: Rule = {
   meta: {
@@ -14,44 +14,58 @@ export const codepointMismatch: Rule = {
     needs: "table",
   },
   check(ctx) {
-    const groups = new Map<string, { first: OwnedSid; count: number; expected: number; means: string }>();
-    for (const s of ctx.sids) {
-      const e = s.entry;
-      if (e.codepoint === undefined || !isBehaviorName(e.behavior)) continue;
+    const t = ctx.packed.table;
+    const kinds = sidKinds(ctx);
+    // Per kind of SID, once: the id of `behaviour|flavours|codepoint` when the codepoint is another
+    // behaviour's (-1: nothing to report), with the codepoint expected and the one found's meaning.
+    const keys = new Interner();
+    const expectedOf: number[] = [];
+    const meansOf: string[] = [];
+    const keyOf = Int32Array.from({ length: kinds.count }, (_, k) => {
+      const cp = kinds.codepoint[k]!;
+      const behavior = t.behaviors[kinds.behavior[k]!]!;
+      if (Number.isNaN(cp) || !isBehaviorName(behavior)) return -1;
       const flavors: Flavor[] = [];
-      let readable = true;
-      for (const f of e.flavors) {
+      for (const f of t.flavorSets[kinds.flavorSet[k]!]!) {
         const p = parseFlavor(f);
-        if (p) flavors.push(p);
-        else readable = false;
+        if (!p) return -1; // flavor-illegal reports the unknown name
+        flavors.push(p);
       }
-      if (!readable) continue; // flavor-illegal reports the unknown name
-      const expected = codepointOf(e.behavior, flavors);
-      if (expected === undefined || expected === e.codepoint) continue; // IANA SRv6 Endpoint Behaviors registry
+      const expected = codepointOf(behavior, flavors);
+      if (expected === undefined || expected === cp) return -1; // IANA SRv6 Endpoint Behaviors registry
       // Reserved, unassigned, private-use and opaque values have rules of their own.
-      const c = classifyCodepoint(e.codepoint);
+      const c = classifyCodepoint(cp);
       let means: string;
       if (c.kind === "behavior") means = c.flavors.length ? `${c.behavior} with ${c.flavors.join("+")}` : c.behavior;
       else if (c.kind === "other-registered") means = c.name;
-      else continue;
-      const key = `${s.node}|${e.behavior}|${flavors.join("+")}|${e.codepoint}`;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1, expected, means });
-      else {
-        g.count++;
-        if (e.row !== undefined && g.first.entry.row !== undefined && e.row < g.first.entry.row) g.first = s;
-      }
+      else return -1;
+      const id = keys.id(`${behavior}|${flavors.join("+")}|${cp}`);
+      expectedOf[id] = expected;
+      meansOf[id] = means;
+      return id;
+    });
+    if (keyOf.every((k) => k < 0)) return;
+    const groups = new SidGroups<number>(t);
+    const nodes = t.nodeNames.length;
+    for (const i of sidsOfKinds(kinds, Uint8Array.from(keyOf, (k) => (k >= 0 ? 1 : 0)))) {
+      const k = keyOf[kinds.of[i]!]!;
+      groups.add(k * nodes + nodeKeyOf(t, i), i, k);
     }
-    for (const g of groups.values()) {
-      const e = g.first.entry;
-      const sid = formatAddr(e.sid);
-      const what = e.flavors.length ? `${e.behavior} with ${e.flavors.join("+")}` : e.behavior;
+    for (const g of groups.ordered()) {
+      const i = g.first;
+      const node = t.nodeOf(i);
+      const behavior = t.behaviors[t.behavior[i]!]!;
+      const list = t.flavorSets[t.flavorSet[i]!]!;
+      const flavors = list.join("+");
+      const codepoint = t.codepoint[i]!;
+      const sid = t.formatSid(i);
+      const what = list.length ? `${behavior} with ${flavors}` : behavior;
       ctx.report({
-        message: `${g.count} SID${g.count > 1 ? "s" : ""} of ${g.first.node} (e.g. ${sid}) are ${what} but carry codepoint ${e.codepoint}, which the registry gives to ${g.means}; ${what} is ${g.expected}`,
-        location: ctx.locateSid(g.first),
-        objects: [g.first.node, sid],
-        hint: `advertise codepoint ${g.expected}, or correct the behaviour and flavours if the codepoint is the intended one`,
-        data: { node: g.first.node, sid, behavior: e.behavior, flavors: e.flavors.join("+"), codepoint: e.codepoint!, expected: g.expected, means: g.means, count: g.count },
+        message: `${g.count} SID${g.count > 1 ? "s" : ""} of ${node} (e.g. ${sid}) are ${what} but carry codepoint ${codepoint}, which the registry gives to ${meansOf[g.data]!}; ${what} is ${expectedOf[g.data]!}`,
+        location: ctx.locateSidAt(i),
+        objects: [node, sid],
+        hint: `advertise codepoint ${expectedOf[g.data]!}, or correct the behaviour and flavours if the codepoint is the intended one`,
+        data: { node, sid, behavior, flavors, codepoint, expected: expectedOf[g.data]!, means: meansOf[g.data]!, count: g.count },
       });
     }
   },

@@ -1,7 +1,7 @@
 /** Private-use codepoints, and the opaque codepoint outside BGP services, deserve a second look. */
-import { formatAddr } from "../../net/text.js";
 import { BEHAVIORS, classifyCodepoint, isBehaviorName } from "../../sid/behaviors.js";
-import type { OwnedSid, Rule } from "../types.js";
+import { SidGroups, nodeKeyOf, sidKinds, sidsOfKinds } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 /** Behaviours BGP advertises as services (RFC 8986 §8.4 Table 3): the only place the opaque codepoint is meant for. */
 const BGP_SERVICE_BINDINGS: ReadonlySet<string> = new Set(["vrf", "attachment-circuit", "bridge-domain"]);
@@ -17,39 +17,44 @@ export const codepointPrivate: Rule = {
     needs: "table",
   },
   check(ctx) {
-    const groups = new Map<string, { first: OwnedSid; count: number; kind: "private-use" | "opaque-outside-bgp" }>();
-    for (const s of ctx.sids) {
-      const e = s.entry;
-      if (e.codepoint === undefined) continue;
-      const c = classifyCodepoint(e.codepoint);
-      let kind: "private-use" | "opaque-outside-bgp";
-      if (c.kind === "private-use") kind = "private-use"; // RFC 8986 §10.2.1: 32768-34815
-      else if (c.kind === "opaque" && isBehaviorName(e.behavior) && !BGP_SERVICE_BINDINGS.has(BEHAVIORS[e.behavior].binding)) kind = "opaque-outside-bgp"; // RFC 8986 §8.3
-      else continue;
-      const key = `${s.node}|${e.codepoint}|${kind === "opaque-outside-bgp" ? e.behavior : ""}`;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1, kind });
-      else {
-        g.count++;
-        if (e.row !== undefined && g.first.entry.row !== undefined && e.row < g.first.entry.row) g.first = s;
-      }
-    }
-    for (const g of groups.values()) {
-      const e = g.first.entry;
-      const sid = formatAddr(e.sid);
-      const n = `${g.count} SID${g.count > 1 ? "s" : ""} of ${g.first.node} (e.g. ${sid}, ${e.behavior})`;
+    const t = ctx.packed.table;
+    // per behaviour, once: known and not a BGP service binding (RFC 8986 §8.3)
+    const notBgp = Uint8Array.from(t.behaviors, (b) => (isBehaviorName(b) && !BGP_SERVICE_BINDINGS.has(BEHAVIORS[b].binding) ? 1 : 0));
+    const kinds = sidKinds(ctx);
+    // per kind of SID, once: the key without the node (-1: nothing to report). Private-use
+    // codepoints (32768-34815) key by codepoint, the opaque one (65535) by behaviour.
+    const keyOf = Int32Array.from({ length: kinds.count }, (_, k) => {
+      const cp = kinds.codepoint[k]!;
+      if (Number.isNaN(cp)) return -1;
+      const c = classifyCodepoint(cp).kind;
+      if (c === "private-use") return cp - 0x8000; // RFC 8986 §10.2.1: 32768-34815
+      if (c === "opaque" && notBgp[kinds.behavior[k]!] === 1) return 0x800 + kinds.behavior[k]!; // RFC 8986 §8.3
+      return -1;
+    });
+    if (keyOf.every((k) => k < 0)) return;
+    const groups = new SidGroups(t);
+    const nodes = t.nodeNames.length;
+    for (const i of sidsOfKinds(kinds, Uint8Array.from(keyOf, (k) => (k >= 0 ? 1 : 0)))) groups.add(keyOf[kinds.of[i]!]! * nodes + nodeKeyOf(t, i), i, undefined);
+    for (const g of groups.ordered()) {
+      const i = g.first;
+      const node = t.nodeOf(i);
+      const behavior = t.behaviors[t.behavior[i]!]!;
+      const codepoint = t.codepoint[i]!;
+      const kind = classifyCodepoint(codepoint).kind === "private-use" ? "private-use" : "opaque-outside-bgp";
+      const sid = t.formatSid(i);
+      const n = `${g.count} SID${g.count > 1 ? "s" : ""} of ${node} (e.g. ${sid}, ${behavior})`;
       ctx.report({
         message:
-          g.kind === "private-use"
-            ? `${n} carry the private-use codepoint ${e.codepoint}; it means nothing outside equipment configured alike`
-            : `${n} carry the opaque codepoint 65535, but ${e.behavior} is not a BGP service SID`,
-        location: ctx.locateSid(g.first),
-        objects: [g.first.node, sid],
+          kind === "private-use"
+            ? `${n} carry the private-use codepoint ${codepoint}; it means nothing outside equipment configured alike`
+            : `${n} carry the opaque codepoint 65535, but ${behavior} is not a BGP service SID`,
+        location: ctx.locateSidAt(i),
+        objects: [node, sid],
         hint:
-          g.kind === "private-use"
+          kind === "private-use"
             ? "use the registered codepoint if the behaviour has one; otherwise make sure the value never leaves the domain that agreed on it"
             : "advertise the registered codepoint; keep 65535 for service SIDs (End.DX*, End.DT*) advertised in BGP",
-        data: { node: g.first.node, sid, behavior: e.behavior, codepoint: e.codepoint!, kind: g.kind, count: g.count },
+        data: { node, sid, behavior, codepoint, kind, count: g.count },
       });
     }
   },

@@ -1,7 +1,7 @@
 /** No SID carries a reserved or unassigned endpoint behaviour codepoint. */
-import { formatAddr } from "../../net/text.js";
 import { REGISTRY_SNAPSHOT, classifyCodepoint } from "../../sid/behaviors.js";
-import type { OwnedSid, Rule } from "../types.js";
+import { SidGroups, nodeKeyOf, sidKinds, sidsOfKinds } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 export const codepointReserved: Rule = {
   meta: {
@@ -14,26 +14,27 @@ export const codepointReserved: Rule = {
     needs: "table",
   },
   check(ctx) {
-    const groups = new Map<string, { first: OwnedSid; count: number; kind: "reserved" | "unassigned" }>();
-    for (const s of ctx.sids) {
-      const cp = s.entry.codepoint;
-      if (cp === undefined) continue;
-      const kind = classifyCodepoint(cp).kind; // RFC 8986 §10.2.1 ranges; IANA snapshot
-      if (kind !== "reserved" && kind !== "unassigned") continue;
-      const key = `${s.node}|${cp}`;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1, kind });
-      else {
-        g.count++;
-        if (s.entry.row !== undefined && g.first.entry.row !== undefined && s.entry.row < g.first.entry.row) g.first = s;
-      }
-    }
-    for (const g of groups.values()) {
-      const e = g.first.entry;
-      const cp = e.codepoint!;
-      const sid = formatAddr(e.sid);
+    const t = ctx.packed.table;
+    const kinds = sidKinds(ctx);
+    // per kind of SID, once: RFC 8986 §10.2.1 ranges; IANA snapshot
+    const flagged = Uint8Array.from(kinds.codepoint, (cp) => {
+      if (Number.isNaN(cp)) return 0;
+      const kind = classifyCodepoint(cp).kind;
+      return kind === "reserved" || kind === "unassigned" ? 1 : 0;
+    });
+    if (!flagged.includes(1)) return;
+    const groups = new SidGroups(t);
+    const nodes = t.nodeNames.length;
+    for (const i of sidsOfKinds(kinds, flagged)) groups.add(t.codepoint[i]! * nodes + nodeKeyOf(t, i), i, undefined);
+    for (const g of groups.ordered()) {
+      const i = g.first;
+      const node = t.nodeOf(i);
+      const behavior = t.behaviors[t.behavior[i]!]!;
+      const cp = t.codepoint[i]!;
+      const kind = classifyCodepoint(cp).kind === "unassigned" ? "unassigned" : "reserved";
+      const sid = t.formatSid(i);
       const why =
-        g.kind === "unassigned"
+        kind === "unassigned"
           ? `is not assigned in the IANA registry (snapshot ${REGISTRY_SNAPSHOT})`
           : cp === 0
             ? "is reserved and never allocated"
@@ -41,14 +42,14 @@ export const codepointReserved: Rule = {
               ? "is registered as Reserved"
               : "lies in the reserved range 34816-65534";
       ctx.report({
-        message: `${g.count} SID${g.count > 1 ? "s" : ""} of ${g.first.node} (e.g. ${sid}, ${e.behavior}) carry codepoint ${cp}, which ${why}`,
-        location: ctx.locateSid(g.first),
-        objects: [g.first.node, sid],
+        message: `${g.count} SID${g.count > 1 ? "s" : ""} of ${node} (e.g. ${sid}, ${behavior}) carry codepoint ${cp}, which ${why}`,
+        location: ctx.locateSidAt(i),
+        objects: [node, sid],
         hint:
-          g.kind === "unassigned"
+          kind === "unassigned"
             ? "use the registered codepoint of the behaviour; if the value was registered after our snapshot, waive the finding with the registry reference"
             : "use the registered codepoint of the behaviour (1-32767 first come first served, 32768-34815 private use)",
-        data: { node: g.first.node, sid, behavior: e.behavior, codepoint: cp, kind: g.kind, count: g.count },
+        data: { node, sid, behavior, codepoint: cp, kind, count: g.count },
       });
     }
   },

@@ -1,10 +1,10 @@
 /** Compressed blocks use the Locator-Block lengths RFC 9800 asks implementations to support or recommends. */
 import { Prefix } from "../../net/prefix.js";
-import { formatAddr } from "../../net/text.js";
-import { prefixMask } from "../../net/uint128.js";
+import { fromWords } from "../../net/uint128.js";
 import type { SourceLocation } from "../../plan/diagnostic.js";
-import type { OwnedSid, Rule, RuleContext } from "../types.js";
-import { type CsidFlavor, replace16Locators, shapeOf } from "./csid-length.js";
+import { type CsidFlavor, type CsidReading, shapeOf } from "../shared/csid.js";
+import { PrefixMap, SidGroups, leadMask } from "../shared/sids.js";
+import type { Rule, RuleContext } from "../types.js";
 
 /** Block lengths RFC 9800 §4.2 recommends for REPLACE-CSID, for easier reading in operation. */
 const REPLACE_RECOMMENDED: readonly number[] = [48, 56, 64, 72, 80];
@@ -74,34 +74,47 @@ export const csidBlockLength: Rule = {
       }
       return;
     }
-    // Table: one finding per Locator-Block prefix, flavour and C-SID length.
-    const r16 = replace16Locators(ctx.sids);
-    const groups = new Map<string, { first: OwnedSid; count: number; prefix: Prefix; flavor: CsidFlavor; csidBits: number }>();
-    for (const s of ctx.sids) {
-      const v = shapeOf(s, r16);
+    // Table: one finding per Locator-Block prefix, flavour and C-SID length. The judgement does not
+    // depend on the prefix, so a SID whose block and C-SID lengths are fine is passed by at once.
+    const t = ctx.packed.table;
+    const shapes = shapeOf(ctx);
+    if (!shapes.any) return;
+    const judged = new Map<CsidReading, boolean>();
+    const blockIds = new PrefixMap<number>(t); // Locator-Block prefix -> id
+    const blocks: Prefix[] = [];
+    const groups = new SidGroups<number>(t); // data: the block id
+    for (let i = 0; i < t.count; i++) {
+      const v = shapes.at(i);
       if (!v || v.st.block === 0) continue;
-      const first = s.entry.sid & prefixMask(v.st.block);
-      const key = `${v.st.block}:${first}|${v.flavor}|${v.shape.length}`;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1, prefix: new Prefix(first, v.st.block), flavor: v.flavor, csidBits: v.shape.length });
-      else {
-        g.count++;
-        if (s.entry.row !== undefined && g.first.entry.row !== undefined && s.entry.row < g.first.entry.row) g.first = s;
+      let bad = judged.get(v);
+      if (bad === undefined) judged.set(v, (bad = judge(v.flavor, v.st.block, v.shape.length) !== undefined));
+      if (!bad) continue;
+      const len = v.st.block;
+      let b = blockIds.get(i, len);
+      if (b === undefined) {
+        b = blocks.length;
+        blocks.push(new Prefix(fromWords(t.w0[i]! & leadMask(len), t.w1[i]! & leadMask(len - 32), t.w2[i]! & leadMask(len - 64), t.w3[i]! & leadMask(len - 96)), len));
+        blockIds.set(i, len, b);
       }
+      groups.add((b * 2 + (v.flavor === "NEXT-CSID" ? 0 : 1)) * 129 + v.shape.length, i, b);
     }
-    for (const g of groups.values()) {
-      const j = judge(g.flavor, g.prefix.len, g.csidBits);
-      if (!j) continue;
-      const block = g.prefix.format();
-      const sid = formatAddr(g.first.entry.sid);
-      const { message, hint } = say(`Locator-Block ${block} (${g.count} SID${g.count > 1 ? "s" : ""}, e.g. ${sid})`, g.flavor, g.prefix.len, g.csidBits, j);
-      const location: SourceLocation = ctx.locateSid(g.first);
+    for (const g of groups.ordered()) {
+      const prefix = blocks[g.data]!;
+      const { flavor, shape } = shapes.at(g.lead)!;
+      const csidBits = shape.length;
+      const j = judge(flavor, prefix.len, csidBits)!;
+      const i = g.first;
+      const node = t.nodeOf(i);
+      const block = prefix.format();
+      const sid = t.formatSid(i);
+      const { message, hint } = say(`Locator-Block ${block} (${g.count} SID${g.count > 1 ? "s" : ""}, e.g. ${sid})`, flavor, prefix.len, csidBits, j);
+      const location: SourceLocation = ctx.locateSidAt(i);
       ctx.report({
         message,
         location,
-        objects: [block, g.first.node, sid],
+        objects: [block, node, sid],
         hint,
-        data: { block, flavor: g.flavor, blockBits: g.prefix.len, csidBits: g.csidBits, kind: j.kind, ...(j.limit !== undefined ? { limit: j.limit } : {}), sid, count: g.count },
+        data: { block, flavor, blockBits: prefix.len, csidBits, kind: j.kind, ...(j.limit !== undefined ? { limit: j.limit } : {}), sid, count: g.count },
       });
     }
   },

@@ -1,34 +1,20 @@
 /** Compressed SIDs of one Locator-Block agree on the block length, the C-SID length and the C-SID flavour. */
 import { Prefix } from "../../net/prefix.js";
-import { formatAddr } from "../../net/text.js";
-import { prefixMask } from "../../net/uint128.js";
-import type { OwnedSid, Rule } from "../types.js";
-import { replace16Locators, shapeOf } from "./csid-length.js";
+import { fromWords } from "../../net/uint128.js";
+import { shapeOf } from "../shared/csid.js";
+import { PrefixMap, SidGroup, SidGroups, compareSids, leadMask } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
-interface Tally {
-  count: number;
-  first: OwnedSid;
-}
-
+/** The compressed SIDs of one Locator-Block prefix, tallied by flavour and by C-SID length. */
 interface Domain {
   readonly prefix: Prefix;
-  count: number;
-  first: OwnedSid;
-  readonly flavors: Map<string, Tally>;
-  readonly lengths: Map<number, Tally>;
-}
-
-function bump<K>(m: Map<K, Tally>, k: K, s: OwnedSid): void {
-  const t = m.get(k);
-  if (!t) m.set(k, { count: 1, first: s });
-  else {
-    t.count++;
-    if (s.entry.row !== undefined && t.first.entry.row !== undefined && s.entry.row < t.first.entry.row) t.first = s;
-  }
+  readonly all: SidGroup;
+  readonly flavors: SidGroups;
+  readonly lengths: SidGroups;
 }
 
 /** The values of a tally, most common first, as "A (n SIDs), B (m SIDs)"; and the least common one. */
-function describe<K extends string | number>(m: Map<K, Tally>): { text: string; odd: [K, Tally] } {
+function describe(m: SidGroups): { text: string; odd: [string | number, SidGroup] } {
   const list = [...m.entries()].sort((a, b) => b[1].count - a[1].count || (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : 0));
   return { text: list.map(([k, t]) => `${k} (${t.count} SID${t.count > 1 ? "s" : ""})`).join(", "), odd: list[list.length - 1]! };
 }
@@ -44,36 +30,42 @@ export const csidDomainMismatch: Rule = {
     needs: "table",
   },
   check(ctx) {
-    const r16 = replace16Locators(ctx.sids);
+    const t = ctx.packed.table;
+    const shapes = shapeOf(ctx);
+    if (!shapes.any) return;
     // One domain per Locator-Block prefix, read from each SID with its own block length.
-    const domains = new Map<string, Domain>();
-    for (const s of ctx.sids) {
-      const v = shapeOf(s, r16);
+    const domains = new PrefixMap<Domain>(t);
+    for (let i = 0; i < t.count; i++) {
+      const v = shapes.at(i);
       if (!v || v.st.block === 0) continue;
-      const first = s.entry.sid & prefixMask(v.st.block);
-      const key = `${v.st.block}:${first}`; // cheaper than formatting every SID's block
-      let d = domains.get(key);
-      if (!d) domains.set(key, (d = { prefix: new Prefix(first, v.st.block), count: 0, first: s, flavors: new Map(), lengths: new Map() }));
-      d.count++;
-      if (s.entry.row !== undefined && d.first.entry.row !== undefined && s.entry.row < d.first.entry.row) d.first = s;
-      bump(d.flavors, v.flavor, s);
-      bump(d.lengths, v.shape.length, s);
+      const len = v.st.block;
+      let d = domains.get(i, len);
+      if (!d) {
+        const first = fromWords(t.w0[i]! & leadMask(len), t.w1[i]! & leadMask(len - 32), t.w2[i]! & leadMask(len - 64), t.w3[i]! & leadMask(len - 96));
+        d = { prefix: new Prefix(first, len), all: new SidGroup(t, undefined, i), flavors: new SidGroups(t), lengths: new SidGroups(t) };
+        domains.set(i, len, d);
+      } else d.all.take(i);
+      d.flavors.add(v.flavor, i, undefined);
+      d.lengths.add(v.shape.length, i, undefined);
     }
-    const report = (d: Domain, kind: "flavor" | "csid-length", text: string, odd: Tally, value: string | number) => {
-      const sid = formatAddr(odd.first.entry.sid);
+    const list = domains.values().sort((a, b) => compareLead(a.all, b.all));
+    const report = (d: Domain, kind: "flavor" | "csid-length", text: string, odd: SidGroup, value: string | number) => {
+      const i = odd.first;
+      const node = t.nodeOf(i);
+      const sid = t.formatSid(i);
       const block = d.prefix.format();
       ctx.report({
         message:
           kind === "flavor"
             ? `compressed SIDs of Locator-Block ${block} mix C-SID flavours: ${text}`
             : `compressed SIDs of Locator-Block ${block} mix C-SID lengths: ${text} bits`,
-        location: ctx.locateSid(odd.first),
-        objects: [block, odd.first.node, sid],
+        location: ctx.locateSidAt(i),
+        objects: [block, node, sid],
         hint: kind === "flavor" ? "use one C-SID flavour per Locator-Block, or give the other flavour a block of its own" : "use one C-SID length for every SID of the Locator-Block",
-        data: { block, kind, values: text, odd: value, sid, node: odd.first.node, count: odd.count },
+        data: { block, kind, values: text, odd: value, sid, node, count: odd.count },
       });
     };
-    for (const d of domains.values()) {
+    for (const d of list) {
       if (d.flavors.size > 1) {
         const { text, odd } = describe(d.flavors);
         report(d, "flavor", text, odd[1], odd[0]); // RFC 9800 §9.1; §6.4 (REPLACE-CSID sequences share the scheme)
@@ -85,24 +77,30 @@ export const csidDomainMismatch: Rule = {
     }
     // Block prefixes nested in one another: the same SIDs' leading bits read with different block
     // lengths. Sweep the distinct prefixes in address order, keeping the open (containing) ones.
-    const sorted = [...domains.values()].sort((a, b) => (a.prefix.first < b.prefix.first ? -1 : a.prefix.first > b.prefix.first ? 1 : a.prefix.len - b.prefix.len));
+    const sorted = [...list].sort((a, b) => (a.prefix.first < b.prefix.first ? -1 : a.prefix.first > b.prefix.first ? 1 : a.prefix.len - b.prefix.len));
     const open: Domain[] = [];
     for (const d of sorted) {
       while (open.length > 0 && open[open.length - 1]!.prefix.last < d.prefix.first) open.pop();
       const outer = open[open.length - 1];
       if (outer && outer.prefix.contains(d.prefix.first)) {
         // RFC 9800 §6.3, §6.4: SIDs compressed together share one Locator-Block.
-        const few = d.count <= outer.count ? d : outer;
-        const sid = formatAddr(few.first.entry.sid);
+        const few = d.all.count <= outer.all.count ? d : outer;
+        const i = few.all.first;
+        const node = t.nodeOf(i);
+        const sid = t.formatSid(i);
         ctx.report({
-          message: `compressed SIDs disagree on the Locator-Block: ${outer.count} SID${outer.count > 1 ? "s" : ""} state ${outer.prefix.format()} and ${d.count} SID${d.count > 1 ? "s" : ""} inside it state ${d.prefix.format()}`,
-          location: ctx.locateSid(few.first),
-          objects: [outer.prefix.format(), d.prefix.format(), few.first.node, sid],
+          message: `compressed SIDs disagree on the Locator-Block: ${outer.all.count} SID${outer.all.count > 1 ? "s" : ""} state ${outer.prefix.format()} and ${d.all.count} SID${d.all.count > 1 ? "s" : ""} inside it state ${d.prefix.format()}`,
+          location: ctx.locateSidAt(i),
+          objects: [outer.prefix.format(), d.prefix.format(), node, sid],
           hint: "advertise every SID of the block with the same block length",
-          data: { block: outer.prefix.format(), kind: "block-length", other: d.prefix.format(), blockBits: outer.prefix.len, otherBits: d.prefix.len, sid, node: few.first.node, count: few.count },
+          data: { block: outer.prefix.format(), kind: "block-length", other: d.prefix.format(), blockBits: outer.prefix.len, otherBits: d.prefix.len, sid, node, count: few.all.count },
         });
       }
       open.push(d);
+    }
+
+    function compareLead(a: SidGroup, b: SidGroup): number {
+      return compareSids(t, a.lead, b.lead);
     }
   },
 };

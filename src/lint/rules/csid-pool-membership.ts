@@ -1,9 +1,10 @@
 /** Node C-SIDs come from the block's global pool (GIB), local C-SIDs from its local pool (LIB). */
-import { formatAddr } from "../../net/text.js";
-import { getField, prefixMask } from "../../net/uint128.js";
+import { getField } from "../../net/uint128.js";
 import type { Block, ValueRange } from "../../plan/model.js";
 import { formatRange, inRanges } from "../../plan/normalize.js";
-import type { OwnedSid, Rule } from "../types.js";
+import type { PackedSidTable } from "../../sid/packed.js";
+import { Interner, PrefixMap, SidGroups, fieldAt, fieldIsZero, nodeKeyOf, sameLead } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 type Role = "node" | "local" | "csid";
 
@@ -19,69 +20,84 @@ export const csidPoolMembership: Rule = {
   },
   check(ctx) {
     const plan = ctx.input.plan!;
-    // Compressed blocks by prefix length, then by first address: a SID finds its block in one
+    const t = ctx.packed.table;
+    // Compressed blocks by prefix length, then by leading bits: a SID finds its block in one
     // lookup per distinct block length (O(n) for a fixed plan).
-    const byLen = new Map<number, Map<bigint, Block>>();
+    const byLen = new Map<number, PrefixMap<Block>>();
     for (const b of plan.blocks) {
       if (b.layout.kind !== "compressed") continue;
       let m = byLen.get(b.prefix.len);
-      if (!m) byLen.set(b.prefix.len, (m = new Map()));
-      m.set(b.prefix.first, b);
+      if (!m) byLen.set(b.prefix.len, (m = new PrefixMap(t)));
+      m.setPrefix(b.prefix, b);
     }
     if (byLen.size === 0) return;
     const lengths = [...byLen.keys()].sort((a, b) => b - a); // longest match first
-    const groups = new Map<string, { first: OwnedSid; count: number; block: Block; role: Role; value: bigint; pool: readonly ValueRange[]; examples: string[] }>();
-    const add = (s: OwnedSid, block: Block, role: Role, value: bigint, pool: readonly ValueRange[]) => {
-      const key = `${block.name}|${s.node}|${role}`;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1, block, role, value, pool, examples: [formatAddr(s.entry.sid)] });
-      else {
-        g.count++;
-        if (g.examples.length < 3) g.examples.push(formatAddr(s.entry.sid));
-        if (s.entry.row !== undefined && g.first.entry.row !== undefined && s.entry.row < g.first.entry.row) {
-          g.first = s;
-          g.value = value;
-        }
-      }
-    };
-    for (const s of ctx.sids) {
-      const sid = s.entry.sid;
+    const longest = lengths[0]!;
+    // the block of a SID depends only on its first `longest` bits, which neighbours mostly share
+    let last = -1;
+    let lastBlock: Block | undefined;
+    const blockOf = (i: number): Block | undefined => {
+      if (last >= 0 && sameLead(t, i, last, longest)) return lastBlock;
       let block: Block | undefined;
       for (const len of lengths) {
-        block = byLen.get(len)!.get(sid & prefixMask(len));
+        block = byLen.get(len)!.get(i, len);
         if (block) break;
       }
+      last = i;
+      lastBlock = block;
+      return block;
+    };
+    const ROLES: readonly Role[] = ["node", "local", "csid"];
+    const blockIds = new Interner();
+    const nodes = t.nodeNames.length;
+    const groups = new SidGroups<Role>(t, 3);
+    const add = (i: number, block: Block, role: number) => groups.add((blockIds.id(block.name) * 3 + role) * nodes + nodeKeyOf(t, i), i, ROLES[role]!);
+    for (let i = 0; i < t.count; i++) {
+      const block = blockOf(i);
       if (!block || block.layout.kind !== "compressed") continue;
       const L = block.layout;
       if (L.twoCsid) {
         // Node C-SID from the GIB, function C-SID (when the SID has one) from the LIB. RFC 9800 §5.
-        const nodeCsid = getField(sid, L.blockBits, L.nodeBits);
-        if (L.gib.length > 0 && !inRanges(nodeCsid, L.gib)) add(s, block, "node", nodeCsid, L.gib);
-        const local = getField(sid, L.blockBits + L.nodeBits, L.functionBits);
-        const hasLocal = s.entry.structure ? s.entry.structure.function > 0 : local !== 0n;
-        if (hasLocal && L.lib.length > 0 && !inRanges(local, L.lib)) add(s, block, "local", local, L.lib);
+        if (L.gib.length > 0 && !inPool(t, i, L.blockBits, L.nodeBits, L.gib)) add(i, block, 0);
+        const st = t.structure[i]!;
+        const hasLocal = st >= 0 ? t.structures[st]!.function > 0 : !fieldIsZero(t, i, L.blockBits + L.nodeBits, L.functionBits);
+        if (hasLocal && L.lib.length > 0 && !inPool(t, i, L.blockBits + L.nodeBits, L.functionBits, L.lib)) add(i, block, 1);
       } else {
         // One C-SID holds node and function (REPLACE-CSID): it comes from the GIB. RFC 9800 §9.2.
-        const csid = getField(sid, L.blockBits, L.csidBits);
-        if (L.gib.length > 0 && !inRanges(csid, L.gib)) add(s, block, "csid", csid, L.gib);
+        if (L.gib.length > 0 && !inPool(t, i, L.blockBits, L.csidBits, L.gib)) add(i, block, 2);
       }
     }
-    for (const g of groups.values()) {
-      const sid = formatAddr(g.first.entry.sid);
-      const pool = g.pool.map((r) => formatRange(r)).join(", ");
-      const what = g.role === "node" ? "node C-SID" : g.role === "local" ? "local C-SID" : "C-SID";
-      const poolName = g.role === "local" ? "local pool (LIB)" : "global pool (GIB)";
-      const value = `0x${g.value.toString(16)}`;
+    for (const g of groups.ordered((a, b) => ROLES.indexOf(a.data) - ROLES.indexOf(b.data))) {
+      const block = blockOf(g.lead)!; // the block and pool as the group's first SID in ctx.sids order found them
+      const L = block.layout as Extract<Block["layout"], { kind: "compressed" }>;
+      const role = g.data;
+      const i = g.first;
+      const node = t.nodeOf(i);
+      const sid = t.formatSid(i);
+      const examples = g.examples.map((e) => t.formatSid(e));
+      const [offset, width] = role === "node" ? [L.blockBits, L.nodeBits] : role === "local" ? [L.blockBits + L.nodeBits, L.functionBits] : [L.blockBits, L.csidBits];
+      const pool = (role === "local" ? L.lib : L.gib).map((r) => formatRange(r)).join(", ");
+      const what = role === "node" ? "node C-SID" : role === "local" ? "local C-SID" : "C-SID";
+      const poolName = role === "local" ? "local pool (LIB)" : "global pool (GIB)";
+      const value = `0x${getField(t.sidAt(i), offset, width).toString(16)}`;
       ctx.report({
         message:
-          g.role === "node"
-            ? `${g.first.node} has the node C-SID ${value} in block ${g.block.name} (e.g. ${sid}), outside the ${poolName} ${pool}`
-            : `${g.count} SID${g.count > 1 ? "s" : ""} of ${g.first.node} in block ${g.block.name} (${g.examples.join(", ")}${g.count > g.examples.length ? ", ..." : ""}) have a ${what} outside the ${poolName} ${pool}, e.g. ${value}`,
-        location: ctx.locateSid(g.first),
-        objects: [g.block.name, g.first.node, sid],
-        hint: g.role === "local" ? "take function values from the local pool, or widen the pool to cover them" : "give the node a value inside the global pool, or widen the pool to cover it",
-        data: { block: g.block.name, node: g.first.node, sid, role: g.role, value, pool, count: g.count },
+          role === "node"
+            ? `${node} has the node C-SID ${value} in block ${block.name} (e.g. ${sid}), outside the ${poolName} ${pool}`
+            : `${g.count} SID${g.count > 1 ? "s" : ""} of ${node} in block ${block.name} (${examples.join(", ")}${g.count > examples.length ? ", ..." : ""}) have a ${what} outside the ${poolName} ${pool}, e.g. ${value}`,
+        location: ctx.locateSidAt(i),
+        objects: [block.name, node, sid],
+        hint: role === "local" ? "take function values from the local pool, or widen the pool to cover them" : "give the node a value inside the global pool, or widen the pool to cover it",
+        data: { block: block.name, node, sid, role, value, pool, count: g.count },
       });
     }
   },
 };
+
+/** Whether the `width`-bit field at `offset` of SID i lies in one of the ranges (inRanges on the field). */
+function inPool(t: PackedSidTable, i: number, offset: number, width: number, rs: readonly ValueRange[]): boolean {
+  if (width > 32) return inRanges(getField(t.sidAt(i), offset, width), rs);
+  const v = fieldAt(t, i, offset, width);
+  for (const r of rs) if (v >= r.first && v <= r.last) return true; // a number and a bigint compare exactly
+  return false;
+}

@@ -1,8 +1,7 @@
 /** SID space in a documentation prefix (2001:db8::/32, 3fff::/20) is for examples, not networks. */
 import type { SpaceCategory } from "../../net/special.js";
-import { formatAddr } from "../../net/text.js";
 import type { Rule } from "../types.js";
-import { hitLabel, scanSpecialSpace } from "./reserved-space.js";
+import { hitLabel, scanSpecialSpace } from "../shared/space.js";
 
 const DOCUMENTATION: ReadonlySet<SpaceCategory> = new Set<SpaceCategory>(["documentation"]);
 
@@ -19,7 +18,7 @@ export const documentationSpace: Rule = {
   check(ctx) {
     const production = ctx.input.plan?.lint.production === true;
     for (const h of scanSpecialSpace(ctx, DOCUMENTATION)) {
-      const p = h.subject.kind === "sid" ? formatAddr(h.subject.sid!.entry.sid) : h.subject.prefix.format();
+      const p = h.subject.text;
       // RFC 3849; RFC 9637 §4: documentation prefixes are not for real traffic.
       ctx.report({
         message: `${hitLabel(h)} lies in the documentation prefix ${h.row.text} (${h.row.source})${production ? ", and the plan is marked for production" : ""}`,

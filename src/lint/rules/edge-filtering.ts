@@ -4,9 +4,8 @@
  * global unicast space leaks unless every edge drops it.
  */
 import type { SpaceCategory } from "../../net/special.js";
-import { formatAddr } from "../../net/text.js";
 import type { Rule } from "../types.js";
-import { hitLabel, scanSpecialSpace } from "./reserved-space.js";
+import { hitLabel, scanSpecialSpace } from "../shared/space.js";
 
 const EDGE: ReadonlySet<SpaceCategory> = new Set<SpaceCategory>(["srv6-sid", "unique-local", "global-unicast"]);
 
@@ -34,7 +33,7 @@ export const edgeFiltering: Rule = {
   check(ctx) {
     for (const h of scanSpecialSpace(ctx, EDGE)) {
       const note = NOTE[h.row.category]!;
-      const p = h.subject.kind === "sid" ? formatAddr(h.subject.sid!.entry.sid) : h.subject.prefix.format();
+      const p = h.subject.text;
       ctx.report({
         message: `${hitLabel(h)} is in ${h.row.text}, ${note.say} (${note.source})`,
         location: h.subject.location,

@@ -1,7 +1,7 @@
 /** Locators (and a plan's block prefixes) have no bits set after their prefix length. */
-import type { Prefix } from "../../net/prefix.js";
 import type { SourceLocation } from "../../plan/diagnostic.js";
-import type { OwnedSid, Rule } from "../types.js";
+import { SidGroups, nodeKeyOf, prefixClean } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 export const hostBits: Rule = {
   meta: {
@@ -28,33 +28,41 @@ export const hostBits: Rule = {
         });
       }
     }
+    const t = ctx.packed.table;
+    // judged once per prefix: RFC 4291 §2.3
+    const dirty = Uint8Array.from(t.prefixes, (_, p) => (prefixClean(t, p) ? 0 : 1));
+    if (!dirty.includes(1)) return;
+    const nodes = t.nodeNames.length;
     // The first SID row (lowest) naming each locator with host bits, for the location.
-    const rowOf = new Map<string, OwnedSid>();
-    for (const s of ctx.sids) {
-      if (!s.entry.locator?.hasHostBits) continue;
-      const k = `${s.node}|${s.entry.locator.format()}`;
-      const cur = rowOf.get(k);
-      if (!cur || (s.entry.row !== undefined && cur.entry.row !== undefined && s.entry.row < cur.entry.row)) rowOf.set(k, s);
+    const rowOf = new SidGroups(t);
+    for (let i = 0; i < t.count; i++) {
+      const loc = t.locator[i]!;
+      if (loc < 0) continue;
+      const p = t.locPrefix[loc]!;
+      if (dirty[p] === 1) rowOf.add(p * nodes + nodeKeyOf(t, i), i, undefined);
     }
-    const seen = new Set<string>();
-    const judge = (node: string, p: Prefix) => {
-      if (!p.hasHostBits) return; // RFC 4291 §2.3
-      const text = p.format();
-      const k = `${node}|${text}`;
+    const rank = t.nodeRank;
+    const seen = new Set<number>();
+    const judge = (nodeId: number, p: number) => {
+      if (dirty[p] === 0) return; // RFC 4291 §2.3
+      const k = p * nodes + rank[nodeId]!;
       if (seen.has(k)) return;
       seen.add(k);
-      const s = rowOf.get(k);
-      const location: SourceLocation = s && s.entry.row !== undefined ? { ...ctx.locateSid(s), field: "locator" } : ctx.locateNode(node);
+      const node = t.nodeNames[nodeId]!;
+      const prefix = t.prefixes[p]!;
+      const text = prefix.format();
+      const first = rowOf.get(k)?.first;
+      const location: SourceLocation = first !== undefined && t.row[first]! > 0 ? { ...ctx.locateSidAt(first), field: "locator" } : ctx.locateNode(node);
       ctx.report({
-        message: `locator ${text} of ${node} has bits set after /${p.len}`,
+        message: `locator ${text} of ${node} has bits set after /${prefix.len}`,
         location,
         objects: [node, text],
-        hint: `write ${p.masked().format()}, or correct the length if the bits are meant`,
-        data: { node, locator: text, masked: p.masked().format() },
+        hint: `write ${prefix.masked().format()}, or correct the length if the bits are meant`,
+        data: { node, locator: text, masked: prefix.masked().format() },
       });
     };
-    for (const l of ctx.locators) judge(l.node, l.entry.prefix);
+    for (const id of ctx.packed.locatorOrder) judge(t.locNode[id]!, t.locPrefix[id]!);
     // A JSON table may name a SID's locator without listing it among the node's locators.
-    for (const s of ctx.sids) if (s.entry.locator) judge(s.node, s.entry.locator);
+    for (const g of rowOf.ordered()) judge(t.node[g.lead]!, t.locPrefix[t.locator[g.lead]!]!);
   },
 };

@@ -1,6 +1,6 @@
 /** A SID's locator is as long as the block and node bits of its structure. */
-import { formatAddr } from "../../net/text.js";
-import type { OwnedSid, Rule } from "../types.js";
+import { SidGroups, nodeKeyOf } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 export const locatorLength: Rule = {
   meta: {
@@ -14,31 +14,44 @@ export const locatorLength: Rule = {
   },
   check(ctx) {
     // One finding per node, locator and stated block + node length.
-    const groups = new Map<string, { first: OwnedSid; count: number }>();
-    for (const s of ctx.sids) {
-      const st = s.entry.structure;
-      const loc = s.entry.locator;
-      if (!st || !loc) continue;
-      if (loc.len === st.block + st.node) continue; // RFC 8986 §3.1: L = LB + LN
-      const key = `${s.node}|${loc.format()}|${st.block}/${st.node}`;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1 });
-      else {
-        g.count++;
-        if (s.entry.row !== undefined && g.first.entry.row !== undefined && s.entry.row < g.first.entry.row) g.first = s;
+    const t = ctx.packed.table;
+    const blockNode = Int32Array.from(t.structures, (st) => st.block + st.node);
+    const groups = new SidGroups(t);
+    const nodes = t.nodeNames.length;
+    const keys = new Map<number, number>(); // prefix id and block/node lengths -> a small id
+    const { structure, locator } = t;
+    let last = -1; // neighbours mostly name one locator: its length is kept
+    let len = -1;
+    for (let i = 0; i < t.count; i++) {
+      const st = structure[i]!;
+      const loc = locator[i]!;
+      if (st < 0 || loc < 0) continue;
+      if (loc !== last) {
+        last = loc;
+        len = t.plen[t.locPrefix[loc]!]!;
       }
+      if (len === blockNode[st]) continue; // RFC 8986 §3.1: L = LB + LN
+      const p = t.locPrefix[loc]!;
+      const s = t.structures[st]!;
+      const k = (p * 129 + s.block) * 129 + s.node;
+      let id = keys.get(k);
+      if (id === undefined) keys.set(k, (id = keys.size));
+      groups.add(id * nodes + nodeKeyOf(t, i), i, undefined);
     }
-    for (const g of groups.values()) {
-      const st = g.first.entry.structure!;
-      const loc = g.first.entry.locator!.format();
-      const sid = formatAddr(g.first.entry.sid);
+    for (const g of groups.ordered()) {
+      const i = g.first;
+      const node = t.nodeOf(i);
+      const st = t.structures[t.structure[i]!]!;
+      const prefix = t.prefixes[t.locPrefix[t.locator[i]!]!]!;
+      const loc = prefix.format();
+      const sid = t.formatSid(i);
       const expected = st.block + st.node;
       ctx.report({
-        message: `locator ${loc} of ${g.first.node} is /${g.first.entry.locator!.len}, but ${g.count} of its SID${g.count > 1 ? "s" : ""} (e.g. ${sid}) state block ${st.block} + node ${st.node} = ${expected} bits`,
-        location: ctx.locateSid(g.first),
-        objects: [g.first.node, loc],
+        message: `locator ${loc} of ${node} is /${prefix.len}, but ${g.count} of its SID${g.count > 1 ? "s" : ""} (e.g. ${sid}) state block ${st.block} + node ${st.node} = ${expected} bits`,
+        location: ctx.locateSidAt(i),
+        objects: [node, loc],
         hint: `advertise the locator as /${expected}, or correct the block and node lengths of the SID structure`,
-        data: { node: g.first.node, locator: loc, locatorLength: g.first.entry.locator!.len, blockBits: st.block, nodeBits: st.node, expected, sid, count: g.count },
+        data: { node, locator: loc, locatorLength: prefix.len, blockBits: st.block, nodeBits: st.node, expected, sid, count: g.count },
       });
     }
   },

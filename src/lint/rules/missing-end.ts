@@ -1,16 +1,8 @@
 /** Every node has an End SID of its own for each algorithm it takes part in. */
-import { classifyCodepoint } from "../../sid/behaviors.js";
-import type { OwnedSid, Rule } from "../types.js";
-import { PrefixIndex, locatorsByPrefix } from "./locator-outside-block.js";
-
-/** True when the SID is an End SID, in any flavour: by name, or by its codepoint when the name is not ours. */
-export function isBehavior(s: OwnedSid, name: string): boolean {
-  if (s.entry.behavior === name) return true;
-  const cp = s.entry.codepoint;
-  if (cp === undefined || !Number.isInteger(cp) || cp < 0 || cp > 0xffff) return false;
-  const c = classifyCodepoint(cp);
-  return c.kind === "behavior" && c.behavior === name;
-}
+import type { Rule } from "../types.js";
+import { behaviorTest } from "../shared/behavior.js";
+import { locatorGroups } from "../shared/locators.js";
+import { PrefixIndex } from "../shared/prefixes.js";
 
 export const missingEnd: Rule = {
   meta: {
@@ -27,10 +19,11 @@ export const missingEnd: Rule = {
     const planNode = new Map(plan?.nodes.map((n) => [n.name, n]) ?? []);
     // Locators several nodes hold (anycast): End SIDs under them do not name one node.
     const shared = new PrefixIndex(
-      locatorsByPrefix(ctx)
-        .filter((g) => g.holders.length > 1 || g.holders.some((h) => h.entry.anycast !== ""))
-        .map((g) => ({ prefix: g.prefix, value: g })),
+      locatorGroups(ctx)
+        .filter((g) => g.holders.length > 1 || g.anycast !== "")
+        .map((g) => ({ prefix: g.prefix, value: g, range: g.range })),
     );
+    const t = ctx.packed.table;
     const algos = new Map<string, Set<number>>();
     const have = new Map<string, Set<number>>();
     const add = (m: Map<string, Set<number>>, node: string, a: number) => {
@@ -38,13 +31,30 @@ export const missingEnd: Rule = {
       set.add(a);
       m.set(node, set);
     };
-    for (const n of ctx.input.table.nodes) {
-      for (const a of planNode.get(n.node)?.algorithms ?? []) add(algos, n.node, a);
-      for (const l of n.locators) add(algos, n.node, l.algorithm);
-    }
-    for (const s of ctx.sids) {
-      add(algos, s.node, s.entry.algorithm);
-      if (isBehavior(s, "End") && !shared.containingAddr(s.entry.sid)) add(have, s.node, s.entry.algorithm);
+    for (const node of t.nodeNames) for (const a of planNode.get(node)?.algorithms ?? []) add(algos, node, a);
+    for (let id = 0; id < t.locatorCount; id++) if (!t.unlisted.has(id)) add(algos, t.nodeNames[t.locNode[id]!]!, t.locAlgorithm[id]!);
+    // Per SID: its node runs its algorithm, and an End SID of its own counts. Most SIDs repeat the
+    // node and algorithm of the SID before them, so the maps are only touched when those change.
+    const isEnd = behaviorTest(t, "End");
+    const nodeOf = t.node;
+    const algOf = t.algorithm;
+    let lastNode = -1;
+    let lastAlg = 0;
+    let lastEndNode = -1;
+    let lastEndAlg = 0;
+    for (let i = 0, n = t.count; i < n; i++) {
+      const node = nodeOf[i]!;
+      const a = algOf[i]!;
+      if (node !== lastNode || a !== lastAlg) {
+        add(algos, t.nodeNames[node]!, a);
+        lastNode = node;
+        lastAlg = a;
+      }
+      if ((node !== lastEndNode || a !== lastEndAlg) && isEnd(i) && !shared.containingSid(t, i)) {
+        add(have, t.nodeNames[node]!, a);
+        lastEndNode = node;
+        lastEndAlg = a;
+      }
     }
     for (const [node, set] of [...algos.entries()].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))) {
       for (const a of [...set].sort((x, y) => x - y)) {

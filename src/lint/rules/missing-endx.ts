@@ -1,6 +1,6 @@
 /** Every link has End.X SIDs on both ends, for each algorithm the link carries. */
 import type { Rule } from "../types.js";
-import { isBehavior } from "./missing-end.js";
+import { behaviorTest } from "../shared/behavior.js";
 
 export const missingEndx: Rule = {
   meta: {
@@ -15,17 +15,24 @@ export const missingEndx: Rule = {
   check(ctx) {
     const plan = ctx.input.plan!;
     const algosOf = new Map(plan.nodes.map((n) => [n.name, n.algorithms]));
-    const inTable = new Set(ctx.input.table.nodes.map((n) => n.node));
-    // node|algorithm|neighbor -> interfaces named in the SIDs' context ("" when none is named)
-    const endx = new Map<string, Set<string>>();
-    for (const s of ctx.sids) {
-      if (!isBehavior(s, "End.X")) continue;
-      const nb = s.entry.context["neighbor"];
+    const t = ctx.packed.table;
+    const inTable = new Set(t.nodeNames);
+    // node -> algorithm -> neighbor -> interfaces named in the SIDs' context ("" when none is named)
+    const endx = new Map<string, Map<number, Map<string, Set<string>>>>();
+    const isEndX = behaviorTest(t, "End.X");
+    for (let i = 0; i < t.count; i++) {
+      if (!isEndX(i)) continue;
+      const context = t.contextOf(t.context[i]!);
+      const nb = context["neighbor"];
       if (nb === undefined) continue;
-      const k = `${s.node}|${s.entry.algorithm}|${nb}`;
-      const set = endx.get(k) ?? new Set<string>();
-      set.add(s.entry.context["interface"] ?? "");
-      endx.set(k, set);
+      const node = t.nodeOf(i);
+      let byAlg = endx.get(node);
+      if (!byAlg) endx.set(node, (byAlg = new Map()));
+      let byNb = byAlg.get(t.algorithm[i]!);
+      if (!byNb) byAlg.set(t.algorithm[i]!, (byNb = new Map()));
+      let set = byNb.get(nb);
+      if (!set) byNb.set(nb, (set = new Set()));
+      set.add(context["interface"] ?? "");
     }
     for (const l of plan.links) {
       const [a, b] = l.ends;
@@ -35,7 +42,7 @@ export const missingEndx: Rule = {
         if (ctx.input.fromTable && !inTable.has(me.node)) return;
         const peer = l.ends[1 - j]!;
         const missing = algos.filter((alg) => {
-          const set = endx.get(`${me.node}|${alg}|${peer.node}`);
+          const set = endx.get(me.node)?.get(alg)?.get(peer.node);
           if (!set) return true;
           // Parallel links are told apart by interface: a SID naming another interface is not this link's.
           return me.iface !== undefined && !set.has(me.iface) && !set.has("");

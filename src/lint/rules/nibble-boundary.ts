@@ -1,6 +1,6 @@
 /** Block, locator and function boundaries fall on multiples of 4 bits (one hex digit). */
-import { formatAddr } from "../../net/text.js";
-import type { OwnedSid, Rule } from "../types.js";
+import { SidGroups, nodeKeyOf, structureKeyIds } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 /** The boundaries (bit offsets) that are not multiples of 4, as "block 45, locator 61". */
 function offNibble(blockBits: number, nodeBits: number, functionBits: number): string[] {
@@ -40,32 +40,34 @@ export const nibbleBoundary: Rule = {
       return;
     }
     // Table: one finding per distinct structure (a layout choice, not a per-SID fault).
-    const offByStructure = new Map<string, string[]>();
-    const groups = new Map<string, { first: OwnedSid; count: number; nodes: Set<string>; off: string[] }>();
-    for (const s of ctx.sids) {
-      const st = s.entry.structure;
-      if (!st) continue;
-      const key = `${st.block}/${st.node}/${st.function}`;
-      let off = offByStructure.get(key);
-      if (!off) offByStructure.set(key, (off = offNibble(st.block, st.node, st.function)));
+    const t = ctx.packed.table;
+    const ids = structureKeyIds(t, (st) => `${st.block}/${st.node}/${st.function}`);
+    const offOf = t.structures.map((st) => offNibble(st.block, st.node, st.function));
+    if (offOf.every((o) => o.length === 0)) return;
+    const groups = new SidGroups<string[]>(t);
+    const nodesOf: Set<number>[] = []; // per group key: its nodes
+    for (let i = 0; i < t.count; i++) {
+      const st = t.structure[i]!;
+      if (st < 0) continue;
+      const off = offOf[st]!;
       if (off.length === 0) continue;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1, nodes: new Set([s.node]), off });
-      else {
-        g.count++;
-        g.nodes.add(s.node);
-        if (s.entry.row !== undefined && g.first.entry.row !== undefined && s.entry.row < g.first.entry.row) g.first = s;
-      }
+      const k = ids[st]!;
+      groups.add(k, i, off);
+      (nodesOf[k] ??= new Set()).add(nodeKeyOf(t, i));
     }
-    for (const g of groups.values()) {
-      const st = g.first.entry.structure!;
-      const sid = formatAddr(g.first.entry.sid);
+    for (const g of groups.ordered()) {
+      const i = g.first;
+      const node = t.nodeOf(i);
+      const st = t.structures[t.structure[i]!]!;
+      const sid = t.formatSid(i);
+      const off = g.data;
+      const nodes = nodesOf[ids[t.structure[i]!]!]!;
       ctx.report({
-        message: `${g.count} SID${g.count > 1 ? "s" : ""} on ${g.nodes.size} node${g.nodes.size > 1 ? "s" : ""} (e.g. ${sid} of ${g.first.node}) have boundaries inside a hex digit: ${g.off.join(", ")} bits`,
-        location: ctx.locateSid(g.first),
-        objects: [g.first.node, sid],
+        message: `${g.count} SID${g.count > 1 ? "s" : ""} on ${nodes.size} node${nodes.size > 1 ? "s" : ""} (e.g. ${sid} of ${node}) have boundaries inside a hex digit: ${off.join(", ")} bits`,
+        location: ctx.locateSidAt(i),
+        objects: [node, sid],
         hint: "choose block, node and function lengths that are multiples of 4 bits",
-        data: { node: g.first.node, sid, boundaries: g.off.join(", "), blockBits: st.block, nodeBits: st.node, functionBits: st.function, count: g.count, nodes: g.nodes.size },
+        data: { node, sid, boundaries: off.join(", "), blockBits: st.block, nodeBits: st.node, functionBits: st.function, count: g.count, nodes: nodes.size },
       });
     }
   },

@@ -1,6 +1,6 @@
 /** A SID structure (block + node + function + argument) fits the 128 bits of an IPv6 address. */
-import { formatAddr } from "../../net/text.js";
-import type { OwnedSid, Rule } from "../types.js";
+import { SidGroups, nodeKeyOf } from "../shared/sids.js";
+import type { Rule } from "../types.js";
 
 export const structureTooLong: Rule = {
   meta: {
@@ -34,29 +34,29 @@ export const structureTooLong: Rule = {
       return;
     }
     // Table: one finding per node and structure, not per SID.
-    const groups = new Map<string, { first: OwnedSid; count: number }>();
-    for (const s of ctx.sids) {
-      const st = s.entry.structure;
-      if (!st) continue;
-      if (st.block + st.node + st.function + st.argument <= 128) continue; // RFC 8986 §3.1; RFC 9352 §9
-      const key = `${s.node}|${st.block}/${st.node}/${st.function}/${st.argument}`;
-      const g = groups.get(key);
-      if (!g) groups.set(key, { first: s, count: 1 });
-      else {
-        g.count++;
-        if (s.entry.row !== undefined && g.first.entry.row !== undefined && s.entry.row < g.first.entry.row) g.first = s;
-      }
+    const t = ctx.packed.table;
+    // RFC 8986 §3.1; RFC 9352 §9: judged once per structure
+    const tooLong = Uint8Array.from(t.structures, (st) => (st.block + st.node + st.function + st.argument > 128 ? 1 : 0));
+    if (!tooLong.includes(1)) return;
+    const groups = new SidGroups(t);
+    const nodes = t.nodeNames.length;
+    for (let i = 0; i < t.count; i++) {
+      const st = t.structure[i]!;
+      if (st < 0 || tooLong[st] === 0) continue;
+      groups.add(st * nodes + nodeKeyOf(t, i), i, undefined);
     }
-    for (const g of groups.values()) {
-      const st = g.first.entry.structure!;
+    for (const g of groups.ordered()) {
+      const i = g.first;
+      const st = t.structures[t.structure[i]!]!;
+      const node = t.nodeOf(i);
       const total = st.block + st.node + st.function + st.argument;
-      const sid = formatAddr(g.first.entry.sid);
+      const sid = t.formatSid(i);
       ctx.report({
-        message: `${g.count} SID${g.count > 1 ? "s" : ""} of ${g.first.node} (e.g. ${sid}) have the structure block ${st.block} + node ${st.node} + function ${st.function} + argument ${st.argument} = ${total} bits; at most 128 are allowed`,
-        location: ctx.locateSid(g.first),
-        objects: [g.first.node, sid],
+        message: `${g.count} SID${g.count > 1 ? "s" : ""} of ${node} (e.g. ${sid}) have the structure block ${st.block} + node ${st.node} + function ${st.function} + argument ${st.argument} = ${total} bits; at most 128 are allowed`,
+        location: ctx.locateSidAt(i),
+        objects: [node, sid],
         hint: "correct the structure lengths: together they must fit the 128 bits of the SID",
-        data: { node: g.first.node, sid, blockBits: st.block, nodeBits: st.node, functionBits: st.function, argumentBits: st.argument, total, count: g.count },
+        data: { node, sid, blockBits: st.block, nodeBits: st.node, functionBits: st.function, argumentBits: st.argument, total, count: g.count },
       });
     }
   },

@@ -1,78 +1,22 @@
 /**
  * A group's summary covers exactly its own locators: every member locator falls under it and no
  * other node's locator does. Checked for every declared `summary` and, when the input is a plan's
- * allocation, for every natural summary (block + algorithm bits + the group's level values). The
- * file also holds the group helpers the other summary rules share.
+ * allocation, for every natural summary (block + algorithm bits + the group's level values).
  */
 import { Prefix } from "../../net/prefix.js";
 import type { Block, Group, Plan } from "../../plan/model.js";
-import type { OwnedLocator, Rule, RuleContext } from "../types.js";
-import { PrefixIndex, locatorLocator, locatorsByPrefix } from "./locator-outside-block.js";
+import type { Rule } from "../types.js";
+import { type LocatorGroup, locatorGroups, locatorLocator } from "../shared/locators.js";
+import { PrefixIndex, isSubnetRange, wordRange } from "../shared/prefixes.js";
+import { foreignInside, groupPlanPath, membersByGroup } from "../shared/summary.js";
 
 /** True when `place` is the group `group` or lies below it ("north/quay" is under "north"). */
-export function isUnder(place: string, group: string): boolean {
+function isUnder(place: string, group: string): boolean {
   return place === group || place.startsWith(group + "/");
 }
 
-/** The plan path of a group: groups.north.groups.quay. */
-export function groupPlanPath(path: string): (string | number)[] {
-  return ["groups", ...path.split("/").flatMap((p, i) => (i === 0 ? [p] : ["groups", p]))];
-}
-
-/** A locator prefix (one per prefix and algorithm) with its holders. */
-export type LocatorGroup = ReturnType<typeof locatorsByPrefix>[number];
-
-/**
- * Which groups each locator belongs to: a locator is a member of a group when at least one of its
- * holders sits in the group or below it (plan places). Holders the plan does not know belong to
- * no group. Returns, per group path, its member locators in address order.
- */
-export function membersByGroup(plan: Plan, locs: readonly LocatorGroup[]): Map<string, LocatorGroup[]> {
-  const placeOf = new Map(plan.nodes.map((n) => [n.name, n.place]));
-  const out = new Map<string, LocatorGroup[]>();
-  for (const g of plan.groups) out.set(g.path, []);
-  for (const l of locs) {
-    const groups = new Set<string>();
-    for (const h of l.holders) {
-      const place = placeOf.get(h.node);
-      if (!place) continue;
-      const parts = place.split("/");
-      for (let i = 1; i <= parts.length; i++) groups.add(parts.slice(0, i).join("/"));
-    }
-    for (const g of groups) out.get(g)?.push(l);
-  }
-  return out;
-}
-
-/**
- * The locator groups inside `p` that are not in `own`: how many, and the first `sample` of them in
- * address order. `sorted` is in address order (first address, then shorter first); `ownList` lists
- * `own`. Two binary searches count what lies inside, so the cost is the group's own size plus the
- * sample, not the size of `p` (a summary that wrongly covers a whole block stays cheap).
- */
-export function foreignInside(sorted: readonly LocatorGroup[], p: Prefix, own: ReadonlySet<LocatorGroup>, ownList: readonly LocatorGroup[], sample = 5): { count: number; sample: LocatorGroup[] } {
-  const lowerBound = (pred: (l: LocatorGroup) => boolean) => {
-    let lo = 0;
-    let hi = sorted.length;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (pred(sorted[mid]!)) lo = mid + 1;
-      else hi = mid;
-    }
-    return lo;
-  };
-  let lo = lowerBound((l) => l.prefix.first < p.first);
-  // Prefixes starting at p's first address but shorter contain p rather than lie in it.
-  while (lo < sorted.length && sorted[lo]!.prefix.first === p.first && sorted[lo]!.prefix.len < p.len) lo++;
-  const hi = lowerBound((l) => l.prefix.first <= p.last);
-  const ownInside = ownList.filter((l) => l.prefix.isSubnetOf(p)).length;
-  const out: LocatorGroup[] = [];
-  for (let i = lo; i < hi && out.length < sample; i++) if (!own.has(sorted[i]!)) out.push(sorted[i]!);
-  return { count: Math.max(0, hi - lo - ownInside), sample: out };
-}
-
 /** True when the block serves (part of) the group: no group limit, or a limit above or below it. */
-export function blockServes(b: Block, g: Group): boolean {
+function blockServes(b: Block, g: Group): boolean {
   return b.groups.length === 0 || b.groups.some((bg) => isUnder(g.path, bg) || isUnder(bg, g.path));
 }
 
@@ -82,7 +26,7 @@ export function blockServes(b: Block, g: Group): boolean {
  * level's width; length = block + algorithm bits + the levels down to the group. Undefined when a
  * group value is unknown.
  */
-export function naturalSummary(plan: Plan, groupValues: ReadonlyMap<string, bigint>, g: Group, b: Block, algorithm: number): Prefix | undefined {
+function naturalSummary(plan: Plan, groupValues: ReadonlyMap<string, bigint>, g: Group, b: Block, algorithm: number): Prefix | undefined {
   const parts = g.path.split("/");
   let v = 0n;
   let bits = 0;
@@ -101,7 +45,7 @@ export function naturalSummary(plan: Plan, groupValues: ReadonlyMap<string, bigi
   return new Prefix(b.prefix.first | (field << BigInt(128 - len)), len);
 }
 
-const names = (ls: readonly LocatorGroup[]) => [...new Set(ls.flatMap((l) => l.holders.map((h) => h.node)))];
+const names = (ls: readonly LocatorGroup[]) => [...new Set(ls.flatMap((l) => l.nodes))];
 const few = (xs: readonly string[]) => xs.slice(0, 5).join(", ") + (xs.length > 5 ? `, and ${xs.length - 5} more` : "");
 
 export const summaryLeak: Rule = {
@@ -117,22 +61,24 @@ export const summaryLeak: Rule = {
   check(ctx) {
     const plan = ctx.input.plan!;
     const alloc = ctx.input.allocation;
-    const locs = locatorsByPrefix(ctx); // address order
-    const members = membersByGroup(plan, locs);
+    const locs = locatorGroups(ctx); // address order
+    const members = membersByGroup(ctx);
     const where = locatorLocator(ctx);
     const blocks = new PrefixIndex(plan.blocks.map((b) => ({ prefix: b.prefix, value: b })));
-    const locate = (g: Group, declared: boolean, at: OwnedLocator) =>
+    const blockRanges = plan.blocks.map((b) => wordRange(b.prefix));
+    const locate = (g: Group, declared: boolean, at: number) =>
       ctx.input.fromTable ? where(at) : ctx.locatePlan([...groupPlanPath(g.path), ...(declared ? ["summary"] : [])]);
 
     const judge = (g: Group, s: Prefix, declared: boolean, mine: readonly LocatorGroup[], own: ReadonlySet<LocatorGroup>, ownList: readonly LocatorGroup[], context: string, extra: Record<string, string | number>) => {
       const text = s.format();
       const kind = declared ? "declared" : "natural";
+      const range = wordRange(s);
       // Every member locator under the summary (RFC 5375 §2.4: aggregation).
-      const outside = mine.filter((l) => !l.prefix.isSubnetOf(s));
+      const outside = mine.filter((l) => !isSubnetRange(l.range, range));
       if (outside.length > 0) {
         const who = names(outside);
         ctx.report({
-          message: `${outside.length} locator${outside.length > 1 ? "s" : ""} of group ${g.path} ${outside.length > 1 ? "lie" : "lies"} outside its ${kind} summary ${text}${context}: ${few(outside.map((l) => `${l.prefix.format()} (${l.holders.map((h) => h.node).join(", ")})`))}`,
+          message: `${outside.length} locator${outside.length > 1 ? "s" : ""} of group ${g.path} ${outside.length > 1 ? "lie" : "lies"} outside its ${kind} summary ${text}${context}: ${few(outside.map((l) => `${l.prefix.format()} (${l.nodes.join(", ")})`))}`,
           location: locate(g, declared, outside[0]!.holders[0]!),
           objects: [g.path, text, ...who.slice(0, 5)],
           hint: declared ? "widen or move the summary, or move the nodes into the group's space" : "give the nodes values inside the group, or move them to the group they are numbered in",
@@ -140,12 +86,12 @@ export const summaryLeak: Rule = {
         });
       }
       // No other node's locator under it.
-      const foreign = foreignInside(locs, s, own, ownList);
+      const foreign = foreignInside(locs, range, own, ownList);
       if (foreign.count > 0) {
         const who = names(foreign.sample);
         const more = foreign.count > foreign.sample.length ? `, and ${foreign.count - foreign.sample.length} more` : "";
         ctx.report({
-          message: `${kind} summary ${text} of group ${g.path}${context} also covers ${foreign.count} locator${foreign.count > 1 ? "s" : ""} of other nodes: ${foreign.sample.map((l) => `${l.prefix.format()} (${l.holders.map((h) => h.node).join(", ")})`).join(", ")}${more}`,
+          message: `${kind} summary ${text} of group ${g.path}${context} also covers ${foreign.count} locator${foreign.count > 1 ? "s" : ""} of other nodes: ${foreign.sample.map((l) => `${l.prefix.format()} (${l.nodes.join(", ")})`).join(", ")}${more}`,
           location: locate(g, declared, foreign.sample[0]!.holders[0]!),
           objects: [g.path, text, ...who.slice(0, 5)],
           hint: "narrow the summary, or renumber the foreign nodes out of it",
@@ -162,16 +108,17 @@ export const summaryLeak: Rule = {
         // A declared summary is one prefix: it speaks for the members in the block it lies in (all
         // members when it lies in no block or spans several).
         const inBlock = blocks.containing(s);
-        const scoped = inBlock ? mine.filter((l) => l.prefix.isSubnetOf(inBlock.prefix)) : mine;
+        const blockRange = inBlock && wordRange(inBlock.prefix);
+        const scoped = blockRange ? mine.filter((l) => isSubnetRange(l.range, blockRange)) : mine;
         judge(g, s, true, scoped, own, mine, inBlock ? ` (block ${inBlock.value.name})` : "", {});
       }
       if (!alloc) continue; // natural summaries need the group values the allocation handed out
-      for (const b of plan.blocks) {
+      for (const [k, b] of plan.blocks.entries()) {
         if (!blockServes(b, g)) continue;
         for (const a of b.algorithms) {
           const s = naturalSummary(plan, alloc.groupValues, g, b, a);
           if (!s || (g.summary && g.summary.equals(s))) continue;
-          const scoped = mine.filter((l) => l.algorithm === a && l.prefix.isSubnetOf(b.prefix));
+          const scoped = mine.filter((l) => l.algorithm === a && isSubnetRange(l.range, blockRanges[k]!));
           judge(g, s, false, scoped, own, mine, ` (block ${b.name}, algorithm ${a})`, { block: b.name, algorithm: a });
         }
       }

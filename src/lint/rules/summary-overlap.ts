@@ -1,7 +1,7 @@
 /** Declared summaries of sibling groups must not overlap. */
 import type { Group } from "../../plan/model.js";
 import type { Rule } from "../types.js";
-import { groupPlanPath } from "./summary-leak.js";
+import { groupPlanPath } from "../shared/summary.js";
 
 export const summaryOverlap: Rule = {
   meta: {

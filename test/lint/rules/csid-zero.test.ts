@@ -49,6 +49,13 @@ describe(RULE, () => {
     it("a plan that pins an adjacency's local C-SID to 0 is refused by the allocator (RFC 9800 §5)", () => {
       expect(() => lintPlanWith(RULE, nextPlan({ links: [{ ends: [{ node: "r1", function: 0 }, "r2"] }] }))).toThrow(/links\[0\]\.ends\[0\].*alloc\/pin/);
     });
+    it("a SID whose node and local C-SIDs are both 0 is in both findings", () => {
+      const f = lintCsvWith(RULE, csv(row("z", "5f00:0:100:1:0::", "End.X", "NEXT-CSID", "48/16/16/48"), row("z", "5f00:0:100::", "End.X", "NEXT-CSID", "48/16/16/48")));
+      expect(f.map((x) => [x.data.role, x.data.count, x.location.row, x.data.examples])).toEqual([
+        ["local", 2, 1, "5f00:0:100::,5f00:0:100:1::"],
+        ["node", 1, 2, "5f00:0:100::"],
+      ]);
+    });
     it("one finding per node and role", () => {
       const f = lintCsvWith(RULE, csv(row("z", "5f00:0:100::", "End", "NEXT-CSID", "48/16/0/64"), row("z", "5f00:0:100:0:c000::", "End.X", "NEXT-CSID", "48/16/16/48"), row("z", "5f00:0:100:0:c001::", "End.X", "NEXT-CSID", "48/16/16/48")));
       expect(f.map((x) => [x.data.role, x.data.count, x.location.row])).toEqual([["node", 3, 1]]);

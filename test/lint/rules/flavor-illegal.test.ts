@@ -39,6 +39,13 @@ describe(RULE, () => {
       const f = lintCsvWith(RULE, csv(row("a", "5f00:0:100:1:1::", "End", "PSP+XSP")));
       expect(f.map((x) => [x.objects, x.data.kind, x.data.unknown])).toEqual([[["a", "5f00:0:100:1:1::"], "unknown-flavor", "XSP"]]);
     });
+    it("unknown flavours in a table with only the flavour column: one finding per node and unknown names, at the first row", () => {
+      const f = lintCsvWith(RULE, "node,sid,behavior,flavors\nb,5f00:0:100:2:1::,End.X,xsp\na,5f00:0:100:1:2::,End,PSP+XSP\na,5f00:0:100:1:1::,End.X,XSP+psp\n");
+      expect(f.map((x) => [x.objects, x.data.unknown, x.data.count, x.location.row])).toEqual([
+        [["b", "5f00:0:100:2:1::"], "xsp", 1, 1],
+        [["a", "5f00:0:100:1:2::"], "XSP", 2, 2],
+      ]);
+    });
     it("one finding per node, behaviour and flavour set, whatever the spelling order", () => {
       const f = lintCsvWith(RULE, csv(row("a", "5f00:0:100:1:4000::", "End.DT4", "PSP+USD"), row("a", "5f00:0:100:1:4001::", "End.DT4", "USD+PSP"), row("a", "5f00:0:100:1:4002::", "End.DT4", "USD")));
       expect(f.map((x) => [x.data.flavors, x.data.count, x.location.row])).toEqual([

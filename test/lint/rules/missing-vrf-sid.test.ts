@@ -51,5 +51,10 @@ describe(RULE, () => {
       const f = lintCsvWith(RULE, csv(dt("r1", 1, "End.DT4", "fast", 0)), plan);
       expect(f.map((x) => [x.data.pe, x.data.missing, x.data.algorithm])).toEqual([["r1", "End.DT4", 128]]);
     });
+    it("the SIDs a PE has under other algorithms are listed in address order, not row order", () => {
+      const t = csv("r1,128,5f00:0:100:9::/64,5f00:0:100:9:2::,End.DT6,,,0x2,,,,,vrf=shops", "r1,128,5f00:0:100:9::/64,5f00:0:100:9:1::,End.DT4,,,0x1,,,,,vrf=shops");
+      const f = lintCsvWith(RULE, t, smallPlan({ vrfs: [{ name: "shops", families: ["ipv4", "ipv6"], mode: "combined", pes: ["r1"] }] }));
+      expect(f.map((x) => x.message.split("; it has ")[1])).toEqual(["End.DT4 under algorithm 128, End.DT6 under algorithm 128"]);
+    });
   });
 });

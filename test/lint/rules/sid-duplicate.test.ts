@@ -28,4 +28,9 @@ describe(RULE, () => {
     const f = lintCsvWith(RULE, t);
     expect(f.map((x) => [x.objects, x.location.row, x.data.count])).toEqual([[["a", "5f00:0:100:1:1::"], 2, 2]]);
   });
+  it("invalid: the same SID on two nodes, the later node name first in the file: located at the second node's row", () => {
+    const t = csv("b,0,5f00:0:100:2::/64,5f00:0:100:1:1::,End,,1,0x1,48,16,16,0,", "a,0,5f00:0:100:1::/64,5f00:0:100:1:1::,End,,1,0x1,48,16,16,0,");
+    const f = lintCsvWith(RULE, t);
+    expect(f.map((x) => [x.objects, x.location.row])).toEqual([[["a", "b", "5f00:0:100:1:1::"], 1]]);
+  });
 });

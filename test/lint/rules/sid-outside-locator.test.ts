@@ -18,4 +18,14 @@ describe(RULE, () => {
     const f = lintCsvWith(RULE, t);
     expect(f.map((x) => [x.objects[1], x.data.locatorAlgorithm])).toEqual([["5f00:0:100:1:2::", 0]]);
   });
+  it("invalid: a table without a locator column — every SID is outside, the node has no locator", () => {
+    const f = lintCsvWith(RULE, "node,sid,behavior\nb,5f00:0:100:2:1::,End\na,5f00:0:100:1:1::,End\n");
+    expect(f.map((x) => [x.objects, x.location.row, x.message.endsWith("(the node has no locator)")])).toEqual([
+      [["b", "5f00:0:100:2:1::"], 1, true],
+      [["a", "5f00:0:100:1:1::"], 2, true],
+    ]);
+  });
+  it("valid: a SID naming no locator lies in another row's locator of its node and algorithm", () => {
+    expect(lintCsvWith(RULE, csv("n,0,5f00:0:100:1::/64,5f00:0:100:1:1::,End,,1,0x1,48,16,16,0,", "n,0,,5f00:0:100:1:2::,End.X,,5,0x2,48,16,16,0,neighbor=m"))).toEqual([]);
+  });
 });

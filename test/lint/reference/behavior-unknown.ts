@@ -1,0 +1,81 @@
+// Reference copy (object views) of src/lint/rules/behavior-unknown.ts as it was before the port to the packed table.
+/** Every SID's behaviour is a name from the IANA SRv6 Endpoint Behaviors registry. */
+import { formatAddr } from "../../../src/net/text.js";
+import { BEHAVIOR_NAMES, classifyCodepoint, isBehaviorName } from "../../../src/sid/behaviors.js";
+import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+
+/**
+ * Names printed by mistake in published texts, with the behaviour they mean:
+ * RFC 8986 §8.4 Table 3 writes "End.B6.BM" for End.BM; RFC 9513 §11 writes "End.DT64" for codepoint 20
+ * (End.DT46); draft-ietf-spring-srv6-srh-compression-04 writes "End.DX2U" for codepoint 123 (End.DT2U).
+ */
+const MISPRINTS: ReadonlyMap<string, { name: string; where: string }> = new Map([
+  ["End.B6.BM", { name: "End.BM", where: "RFC 8986 §8.4 Table 3" }],
+  ["End.DT64", { name: "End.DT46", where: "RFC 9513 §11" }],
+  ["End.DX2U", { name: "End.DT2U", where: "draft-ietf-spring-srv6-srh-compression-04" }],
+]);
+
+let otherNames: ReadonlySet<string> | undefined;
+/**
+ * Behaviours the registry lists that sidcarve does not plan (End.MAP, End.LBS, End.Replicate...):
+ * known names, so not reported here. Read from the codepoint table once.
+ */
+function registeredElsewhere(): ReadonlySet<string> {
+  if (otherNames) return otherNames;
+  const out = new Set<string>();
+  for (let cp = 1; cp < 0x8000; cp++) {
+    const c = classifyCodepoint(cp);
+    if (c.kind === "other-registered" && c.name.startsWith("End")) out.add(c.name.replace(/ with .*$/, ""));
+  }
+  otherNames = out;
+  return out;
+}
+
+const BY_LOWER: ReadonlyMap<string, string> = new Map(BEHAVIOR_NAMES.map((n) => [n.toLowerCase(), n]));
+
+export const behaviorUnknown: Rule = {
+  meta: {
+    id: "behavior-unknown",
+    severity: "error",
+    summary: "Name every SID's behaviour as the IANA registry spells it.",
+    rationale:
+      "The behaviour decides what a SID does and which codepoint, flavours and argument it may have; an unknown name cannot be checked against any of that and usually hides a typo or a misprint copied from a published text.",
+    source: "IANA SRv6 Endpoint Behaviors registry; RFC 8986 §4, §10.2.2",
+    needs: "table",
+  },
+  check(ctx) {
+    const other = registeredElsewhere();
+    const groups = new Map<string, { first: OwnedSid; count: number }>();
+    for (const s of ctx.sids) {
+      const b = s.entry.behavior;
+      if (isBehaviorName(b) || other.has(b)) continue; // IANA SRv6 Endpoint Behaviors registry
+      const key = `${s.node}|${b}`;
+      const g = groups.get(key);
+      if (!g) groups.set(key, { first: s, count: 1 });
+      else {
+        g.count++;
+        if (s.entry.row !== undefined && g.first.entry.row !== undefined && s.entry.row < g.first.entry.row) g.first = s;
+      }
+    }
+    for (const g of groups.values()) {
+      const e = g.first.entry;
+      const sid = formatAddr(e.sid);
+      const misprint = MISPRINTS.get(e.behavior);
+      const byCase = BY_LOWER.get(e.behavior.trim().toLowerCase());
+      const byCodepoint = e.codepoint !== undefined ? classifyCodepoint(e.codepoint) : undefined;
+      const suggestion = misprint?.name ?? byCase ?? (byCodepoint?.kind === "behavior" ? byCodepoint.behavior : undefined);
+      let hint: string;
+      if (misprint) hint = `"${e.behavior}" is a misprint in ${misprint.where}; the registry name is "${misprint.name}"`;
+      else if (byCase) hint = `write "${byCase}" (behaviour names are case-sensitive)`;
+      else if (suggestion) hint = `codepoint ${e.codepoint} is "${suggestion}" in the registry; write that name`;
+      else hint = `write one of ${BEHAVIOR_NAMES.join(", ")}`;
+      ctx.report({
+        message: `${g.count} SID${g.count > 1 ? "s" : ""} of ${g.first.node} (e.g. ${sid}) have the unknown behaviour ${JSON.stringify(e.behavior)}`,
+        location: ctx.locateSid(g.first),
+        objects: [g.first.node, sid],
+        hint,
+        data: { node: g.first.node, sid, behavior: e.behavior, ...(suggestion ? { suggestion } : {}), count: g.count },
+      });
+    }
+  },
+};
