@@ -2,9 +2,11 @@
  * Reading plan text (YAML or JSON) into plain data while keeping a source position for every
  * path, and turning schema errors into located diagnostics. All YAML-node code lives here.
  */
-import { Ajv2020 } from "ajv/dist/2020.js";
+import { createRequire } from "node:module";
 import type { ErrorObject, ValidateFunction } from "ajv";
-import { isMap, isScalar, isSeq, LineCounter, parseDocument, type Node as YamlNode, type Document } from "yaml";
+import type { Ajv2020 as Ajv2020Class } from "ajv/dist/2020.js";
+import type { Node as YamlNode, Document } from "yaml";
+import type * as YamlModule from "yaml";
 import { type Diagnostic, type SourceLocation, quote } from "./diagnostic.js";
 import { type FastPositions, fastParseWithPositions } from "./fast-yaml.js";
 import { PLAN_SCHEMA } from "./schema.js";
@@ -145,8 +147,17 @@ function fastLocator(positions: FastPositions, file: string): Locator {
   };
 }
 
+/**
+ * The yaml library and ajv are loaded on first use: a command that never reads a plan the slow
+ * way (linting a CSV table, a plan the fast reader takes) does not pay for loading them.
+ */
+const require = createRequire(import.meta.url);
+let yamlModule: typeof YamlModule | undefined;
+const yamlLib = (): typeof YamlModule => (yamlModule ??= require("yaml") as typeof YamlModule);
+
 /** The yaml library's parse, with a LineCounter for positions: every input that fastParse leaves alone. */
 function parseFull(text: string, file: string): SourceResult {
+  const { LineCounter, parseDocument, isMap, isScalar, isSeq } = yamlLib();
   const lineCounter = new LineCounter();
   let doc: Document.Parsed;
   try {
@@ -259,6 +270,7 @@ let planValidator: ValidateFunction | undefined;
 export function validatePlanData(data: unknown, locate: Locator): Diagnostic[] {
   if (!planValidator) {
     // verbose: errors carry their schema, which the messages use to say what is allowed
+    const { Ajv2020 } = require("ajv/dist/2020.js") as { Ajv2020: typeof Ajv2020Class };
     const ajv = new Ajv2020({ allErrors: true, strict: false, verbose: true });
     planValidator = ajv.compile(PLAN_SCHEMA);
   }
