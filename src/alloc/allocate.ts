@@ -291,10 +291,11 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const locator = new Prefix(b.prefix.first | (field << BigInt(128 - locLen)), locLen);
       locators.push({ prefix: locator, algorithm: algo, block: b.name, anycast: anycastName ?? "" });
       const locFirst = locator.first;
+      const fnShift = BigInt(128 - L.blockBits - L.nodeBits - L.functionBits);
       const firstEnd = endSpecs(plan, algo)[0]?.key;
       // Two-C-SID layouts: the first End SID is the node's global C-SID alone (no local C-SID).
       const specs = (anycastName ? endSpecs(plan, algo) : (specsFor.get(owner) ?? []).filter((s) => s.algorithm === algo || s.algorithm === undefined)).map((s) =>
-        L.kind === "compressed" && L.twoCsid && s.key === firstEnd ? { ...s, noFunction: true } : s,
+        L.kind === "compressed" && L.twoCsid && s.key === firstEnd ? { ...s, noFunction: true, shapeCache: undefined } : s,
       );
       const space = `${owner}|${algo}`;
       const taken = new Set<bigint>(retiredIn("function", space));
@@ -454,7 +455,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
           outValues.push(fn);
           if (sameAsLocked && lockedValues[si] !== fn) sameAsLocked = false;
         }
-        sids.push(makeSid(b, L, locator, locFirst, algo, s, fn, key));
+        sids.push(makeSid(L, locator, locFirst, fnShift, algo, s, fn, key));
       }
     }
     let outFns: ReadonlyMap<string, bigint>;
@@ -689,6 +690,8 @@ interface SidSpec {
   lockKey?: string;
   /** lockKey's per-algorithm keys for specs of every algorithm. */
   lockKeys?: string[];
+  /** shapeOf's answer for the last layout it was asked about. */
+  shapeCache?: { readonly layout: Layout; readonly shape: SidShape };
 }
 
 /** The flavour list of the service SIDs, shared (flavour lists are never changed once made). */
@@ -895,6 +898,15 @@ interface SidShape {
 const shapes = new WeakMap<Layout, Map<string, SidShape>>();
 
 function shapeOf(L: Layout, s: SidSpec): SidShape {
+  // the spec remembers its shape for the last layout asked (a spec is shared by many SIDs)
+  const last = s.shapeCache;
+  if (last !== undefined && last.layout === L) return last.shape;
+  const shape = shapeByKey(L, s);
+  s.shapeCache = { layout: L, shape };
+  return shape;
+}
+
+function shapeByKey(L: Layout, s: SidSpec): SidShape {
   let byKey = shapes.get(L);
   if (!byKey) shapes.set(L, (byKey = new Map()));
   const k = `${s.behavior}|${s.noFunction ? 1 : 0}|${s.flavors.join("+")}`;
@@ -914,9 +926,9 @@ function shapeOf(L: Layout, s: SidSpec): SidShape {
 }
 
 /** `locFirst` is `locator.first`, computed once per locator by the caller. */
-function makeSid(b: Block, L: Layout, locator: Prefix, locFirst: Addr, algo: number, s: SidSpec, fn: bigint, key: string): SidEntry {
+function makeSid(L: Layout, locator: Prefix, locFirst: Addr, fnShift: bigint, algo: number, s: SidSpec, fn: bigint, key: string): SidEntry {
   const shape = shapeOf(L, s);
-  const sid: Addr = locFirst | (s.noFunction ? 0n : fn << BigInt(128 - L.blockBits - L.nodeBits - L.functionBits));
+  const sid: Addr = s.noFunction ? locFirst : locFirst | (fn << fnShift);
   return {
     sid,
     behavior: s.behavior,
@@ -929,7 +941,6 @@ function makeSid(b: Block, L: Layout, locator: Prefix, locFirst: Addr, algo: num
     context: s.context,
     key,
   };
-  void b;
 }
 
 function sortLocators(ls: LocatorEntry[]): LocatorEntry[] {
