@@ -94,10 +94,11 @@ export function checkWritable(paths: readonly string[], options: WriteOptions = 
 
 /**
  * Write `chunks` to `path` atomically: into a temporary file in the same folder, flushed, then
- * renamed over the target. An interrupted run leaves the old file untouched (and at worst a
- * stray temporary file whose name starts with '.' and holds '.tmp-').
+ * renamed over the target. Strings are written as UTF-8, byte chunks as they are (each one is
+ * written before the next is asked for). An interrupted run leaves the old file untouched (and
+ * at worst a stray temporary file whose name starts with '.' and holds '.tmp-').
  */
-export function writeAtomic(path: string, chunks: Iterable<string>, options: WriteOptions = {}): void {
+export function writeAtomic(path: string, chunks: Iterable<string | Uint8Array>, options: WriteOptions = {}): void {
   const dir = dirname(path);
   mkdirSync(dir, { recursive: true });
   checkWritable([path], options);
@@ -105,7 +106,7 @@ export function writeAtomic(path: string, chunks: Iterable<string>, options: Wri
   const fd = openSync(tmp, "w", 0o644);
   try {
     for (const c of chunks) {
-      const buf = Buffer.from(c, "utf8");
+      const buf = typeof c === "string" ? Buffer.from(c, "utf8") : c;
       let off = 0;
       while (off < buf.length) off += writeSync(fd, buf, off);
     }

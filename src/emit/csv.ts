@@ -3,7 +3,7 @@
  * `#` comment line with the plan name and the caution.
  */
 import type { Prefix } from "../net/prefix.js";
-import { formatAddr } from "../net/text.js";
+import { formatAddr, formatWordsInto } from "../net/text.js";
 import { type NodeTable, type SidContext, type SidEntry, type SidTable, formatContext } from "../sid/table.js";
 import { CAUTION } from "./caution.js";
 import { csvCell } from "./names.js";
@@ -121,6 +121,11 @@ function plainCell(t: string): boolean {
   return true;
 }
 
+/** A number's cell: csvCell(String(n)), which leaves a number that is not negative unchanged. */
+function num(n: number): string | number {
+  return n >= 0 ? n : csvCell(String(n));
+}
+
 /**
  * The row of csvRow, built from cached cells; `nodeCell` is csvCell(node). Numbers that are not
  * negative and addresses never start with a formula character or hold a quote, comma or line
@@ -131,7 +136,7 @@ function fastRow(nodeCell: string, s: SidEntry, c: RowCache): string {
   return (
     nodeCell +
     "," +
-    (s.algorithm >= 0 ? s.algorithm : csvCell(String(s.algorithm))) +
+    num(s.algorithm) +
     "," +
     c.locator(s.locator) +
     "," +
@@ -141,11 +146,11 @@ function fastRow(nodeCell: string, s: SidEntry, c: RowCache): string {
     "," +
     c.flavorCell(s.flavors) +
     "," +
-    (s.codepoint === undefined ? "" : s.codepoint >= 0 ? s.codepoint : csvCell(String(s.codepoint))) +
+    (s.codepoint === undefined ? "" : num(s.codepoint)) +
     ",0x" +
     s.function.toString(16) +
     "," +
-    (st ? `${st.block},${st.node},${st.function},${st.argument}` : ",,,") +
+    (st ? `${num(st.block)},${num(st.node)},${num(st.function)},${num(st.argument)}` : ",,,") +
     "," +
     c.context(s.context)
   );
@@ -162,6 +167,382 @@ export function* csvChunks(plan: string, nodes: readonly NodeTable[]): Generator
     for (const s of n.sids) buf += fastRow(nodeCell, s, cache) + "\r\n";
     if (buf) yield buf;
   }
+}
+
+const utf8 = new TextEncoder();
+
+/** UTF-8 bytes of a string; ASCII without TextEncoder (whose cost per call is high for short strings). */
+function utf8Bytes(t: string): Uint8Array {
+  const b = new Uint8Array(t.length);
+  for (let i = 0; i < t.length; i++) {
+    const ch = t.charCodeAt(i);
+    if (ch > 0x7f) return utf8.encode(t);
+    b[i] = ch;
+  }
+  return b;
+}
+
+/** UTF-8 bytes of a cell after csvCell. */
+function cellBytes(v: string): Uint8Array {
+  return utf8Bytes(csvCell(v));
+}
+
+/** A formula character that csvCell neutralises at the start of a cell: = + - @ tab CR. */
+function formulaStart(ch: number): boolean {
+  return ch === 0x3d || ch === 0x2b || ch === 0x2d || ch === 0x40 || ch === 0x09 || ch === 0x0d;
+}
+
+/**
+ * Write `t` at `p` when every character is ASCII other than quote, comma, CR and LF (text that
+ * csvCell leaves alone unless it starts with a formula character) and it fits; returns the
+ * position after it, or -1 (with part of it written) otherwise.
+ */
+function plainInto(buf: Uint8Array, p: number, t: string): number {
+  const n = t.length;
+  if (p + n > buf.length) return -1;
+  for (let i = 0; i < n; i++) {
+    const ch = t.charCodeAt(i);
+    if (ch > 0x7f || ch === 0x22 || ch === 0x2c || ch === 0x0d || ch === 0x0a) return -1;
+    buf[p++] = ch;
+  }
+  return p;
+}
+
+/** Pre-encoded bytes at `p` (room was made); returns the position after them. */
+function bytesInto(buf: Uint8Array, p: number, b: Uint8Array): number {
+  const n = b.length;
+  if (n > 32) {
+    buf.set(b, p);
+    return p + n;
+  }
+  for (let i = 0; i < n; i++) buf[p++] = b[i]!;
+  return p;
+}
+
+/** A whole number 0..2^32-1 in decimal at `p` (room was made); -1 for any other number. */
+function uintInto(buf: Uint8Array, p: number, n: number): number {
+  if (n >>> 0 !== n) return -1; // negative, fractional, too large or NaN: csvCell(String(n)) instead
+  let end = p + 1;
+  for (let m = n; m >= 10; m = Math.floor(m / 10)) end++;
+  p = end;
+  do {
+    buf[--end] = 0x30 + (n % 10);
+    n = Math.floor(n / 10);
+  } while (n > 0);
+  return p;
+}
+
+const HEX_DIGITS = Uint8Array.from("0123456789abcdef", (ch) => ch.charCodeAt(0));
+
+/** `0x` and f (0..2^32-1) in lower-case hex at `p` (room was made); -1 for other values. */
+function functionInto(buf: Uint8Array, p: number, f: bigint): number {
+  if (f < 0n || f > 0xffffffffn) return -1; // "0x" + f.toString(16) instead
+  let n = Number(f);
+  buf[p++] = 0x30;
+  buf[p++] = 0x78;
+  let end = p + 1;
+  for (let m = n >>> 4; m > 0; m >>>= 4) end++;
+  p = end;
+  do {
+    buf[--end] = HEX_DIGITS[n & 15]!;
+    n >>>= 4;
+  } while (n > 0);
+  return p;
+}
+
+/** bigint to four 32-bit words through a typed array: cheaper than four shifts and masks. */
+const wide = new BigUint64Array(2);
+const narrow = new Uint32Array(wide.buffer);
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+// wide[0] holds bits 127..64, wide[1] bits 63..0; where each 32-bit half lands depends on byte order
+const W0 = LITTLE_ENDIAN ? 1 : 0;
+const W1 = LITTLE_ENDIAN ? 0 : 1;
+const W2 = LITTLE_ENDIAN ? 3 : 2;
+const W3 = LITTLE_ENDIAN ? 2 : 3;
+
+/** formatAddr(a) at `p` (room was made): the low 128 bits, as formatAddr's masks take them. */
+function addressInto(buf: Uint8Array, p: number, a: bigint): number {
+  wide[0] = a >> 64n;
+  wide[1] = a;
+  return formatWordsInto(buf, p, narrow[W0]!, narrow[W1]!, narrow[W2]!, narrow[W3]!);
+}
+
+/** How many key lists (as Object.keys gives them) KeyOrders keeps; an allocation has a handful. */
+const KEY_LISTS = 16;
+
+/**
+ * Context key lists seen lately, each with its keys sorted and as bytes (`k=` for the first,
+ * `;k=` for the others), so that a context is sorted and its keys encoded once per list rather
+ * than once per SID. Keyed by the lists' contents, not by the contexts (one per SID or so).
+ */
+class KeyOrders {
+  private readonly lists: (readonly string[])[] = [];
+  private readonly sorted: (readonly string[])[] = [];
+  /** undefined when a key is not plain ASCII or the text would start with a formula character. */
+  private readonly bytes: (readonly Uint8Array[] | undefined)[] = [];
+  private next = 0;
+  /** Set by find(): the sorted keys and their bytes. */
+  keys: readonly string[] = [];
+  keyBytes: readonly Uint8Array[] | undefined;
+
+  find(keys: readonly string[]): void {
+    const n = keys.length;
+    const lists = this.lists;
+    for (let e = 0; e < lists.length; e++) {
+      const l = lists[e]!;
+      if (l.length !== n) continue;
+      let i = 0;
+      while (i < n && l[i] === keys[i]) i++;
+      if (i === n) {
+        this.keys = this.sorted[e]!;
+        this.keyBytes = this.bytes[e];
+        return;
+      }
+    }
+    const sorted = n > 1 ? [...keys].sort() : keys;
+    const k0 = sorted[0]!;
+    // an empty first key puts '=' first
+    const plain = k0.length > 0 && !formulaStart(k0.charCodeAt(0)) && sorted.every((k) => plainInto(scratchKey, 0, k) >= 0);
+    const kb = plain ? sorted.map((k, i) => utf8Bytes(i === 0 ? `${k}=` : `;${k}=`)) : undefined;
+    const e = lists.length < KEY_LISTS ? lists.length : this.next++ % KEY_LISTS;
+    lists[e] = keys;
+    this.sorted[e] = sorted;
+    this.bytes[e] = kb;
+    this.keys = sorted;
+    this.keyBytes = kb;
+  }
+}
+/** Where KeyOrders tries keys (long keys do not fit and take the csvCell path). */
+const scratchKey = new Uint8Array(256);
+
+/**
+ * csvCell(formatContext(c)) at `p` when the text is plain (see plainInto), its first character
+ * is not a formula character and it fits; returns the position after it, or -1.
+ */
+function contextInto(buf: Uint8Array, p: number, c: SidContext, orders: KeyOrders): number {
+  const keys = Object.keys(c);
+  const n = keys.length;
+  if (n === 0) return p;
+  orders.find(keys);
+  const kb = orders.keyBytes;
+  if (kb === undefined) return -1;
+  const sorted = orders.keys;
+  for (let i = 0; i < n; i++) {
+    const k = kb[i]!;
+    if (p + k.length > buf.length) return -1;
+    p = bytesInto(buf, p, k);
+    const v = c[sorted[i]!];
+    p = plainInto(buf, p, typeof v === "string" ? v : `${v}`);
+    if (p < 0) return -1;
+  }
+  return p;
+}
+
+/** Room for the cells a row writes without a check of their own (numbers, address, commas, CRLF). */
+const ROW_FIXED = 192;
+/** Room made at the start of each row beyond that, for the context (which checks, and falls back when short). */
+const ROW_SPARE = 512;
+
+/** The buffer being filled; writeRows leaves in it what it wrote. */
+interface ByteOut {
+  buf: Uint8Array;
+  pos: number;
+}
+
+/** `buf` with room for `n` more bytes at `p` (a larger copy when it has not). */
+function room(buf: Uint8Array, p: number, n: number): Uint8Array {
+  if (p + n <= buf.length) return buf;
+  const b = new Uint8Array(Math.max(buf.length * 2, p + n));
+  b.set(buf.subarray(0, p));
+  return b;
+}
+
+/**
+ * Text `t` (UTF-8, as it is: csvCell's result, the banner) into `buf` at `p`, with room beyond it
+ * for `margin` bytes more. The buffer may be replaced by a larger copy: it is left in `out.buf`,
+ * where the caller takes it back from.
+ */
+function textInto(out: ByteOut, buf: Uint8Array, p: number, t: string, margin: number): number {
+  const b = (out.buf = room(buf, p, t.length * 3 + margin));
+  return p + utf8.encodeInto(t, b.subarray(p)).written;
+}
+
+/** A number's cell, as csvCell(String(n)): digits when it is a whole number 0..2^32-1, else through textInto. */
+function numInto(out: ByteOut, buf: Uint8Array, p: number, n: number, margin: number): number {
+  const q = uintInto(buf, p, n);
+  return q >= 0 ? q : textInto(out, buf, p, csvCell(String(n)), margin);
+}
+
+/** The cells that repeat, encoded once (see csvByteChunks). */
+class CellCache {
+  private readonly locators = new WeakMap<Prefix, Uint8Array>();
+  private readonly flavorLists = new WeakMap<readonly string[], Uint8Array>();
+  private readonly behaviors = new Map<string, Uint8Array>();
+  private lastLocator: Prefix | undefined;
+  private lastLocatorBytes = NO_BYTES;
+  private lastFlavors: readonly string[] | undefined;
+  private lastFlavorBytes = NO_BYTES;
+  private lastBehavior: string | undefined;
+  private lastBehaviorBytes = NO_BYTES;
+  readonly orders = new KeyOrders();
+
+  locator(p: Prefix | undefined): Uint8Array {
+    if (p === this.lastLocator) return this.lastLocatorBytes;
+    let b = NO_BYTES;
+    if (p !== undefined) {
+      const known = this.locators.get(p);
+      if (known === undefined) this.locators.set(p, (b = cellBytes(p.format())));
+      else b = known;
+    }
+    this.lastLocator = p;
+    return (this.lastLocatorBytes = b);
+  }
+
+  flavors(f: readonly string[]): Uint8Array {
+    if (f === this.lastFlavors) return this.lastFlavorBytes;
+    let b = NO_BYTES;
+    if (f.length > 0) {
+      const known = this.flavorLists.get(f);
+      if (known === undefined) this.flavorLists.set(f, (b = cellBytes(f.join("+"))));
+      else b = known;
+    }
+    this.lastFlavors = f;
+    return (this.lastFlavorBytes = b);
+  }
+
+  behavior(v: string): Uint8Array {
+    if (v === this.lastBehavior) return this.lastBehaviorBytes;
+    let b = this.behaviors.get(v);
+    if (b === undefined) {
+      b = cellBytes(v);
+      if (this.behaviors.size < 4096) this.behaviors.set(v, b);
+    }
+    this.lastBehavior = v;
+    return (this.lastBehaviorBytes = b);
+  }
+}
+
+const NO_BYTES: Uint8Array = new Uint8Array(0);
+
+/**
+ * Write the rows of `sids` from index `from` into `out` until the buffer holds `stop` bytes or
+ * more, or the SIDs run out; returns the index of the next SID to write. `nodeBytes` is the
+ * node's cell.
+ */
+function writeRows(out: ByteOut, nodeBytes: Uint8Array, sids: readonly SidEntry[], from: number, stop: number, cache: CellCache): number {
+  let buf = out.buf;
+  let p = out.pos;
+  let i = from;
+  while (i < sids.length && p < stop) {
+    const s = sids[i++]!;
+    const loc = cache.locator(s.locator);
+    const beh = cache.behavior(s.behavior);
+    const fl = cache.flavors(s.flavors);
+    // the cells above are written unchecked, and so are numbers, the address, commas and CRLF;
+    // a write that falls back to text makes room again for all of that (margin)
+    const margin = ROW_FIXED + nodeBytes.length + loc.length + beh.length + fl.length;
+    if (p + margin + ROW_SPARE > buf.length) out.buf = buf = room(buf, p, margin + ROW_SPARE);
+    // (out.buf is the buffer throughout; the writes that may replace it leave the new one there)
+    p = bytesInto(buf, p, nodeBytes);
+    buf[p++] = 0x2c;
+    p = numInto(out, buf, p, s.algorithm, margin);
+    buf = out.buf;
+    buf[p++] = 0x2c;
+    p = bytesInto(buf, p, loc);
+    buf[p++] = 0x2c;
+    p = addressInto(buf, p, s.sid);
+    buf[p++] = 0x2c;
+    p = bytesInto(buf, p, beh);
+    buf[p++] = 0x2c;
+    p = bytesInto(buf, p, fl);
+    buf[p++] = 0x2c;
+    if (s.codepoint !== undefined) {
+      p = numInto(out, buf, p, s.codepoint, margin);
+      buf = out.buf;
+    }
+    buf[p++] = 0x2c;
+    let q = functionInto(buf, p, s.function);
+    if (q < 0) {
+      q = textInto(out, buf, p, "0x" + s.function.toString(16), margin); // csvCell leaves it unchanged
+      buf = out.buf;
+    }
+    p = q;
+    buf[p++] = 0x2c;
+    const st = s.structure;
+    if (st) {
+      p = numInto(out, buf, p, st.block, margin);
+      buf = out.buf;
+      buf[p++] = 0x2c;
+      p = numInto(out, buf, p, st.node, margin);
+      buf = out.buf;
+      buf[p++] = 0x2c;
+      p = numInto(out, buf, p, st.function, margin);
+      buf = out.buf;
+      buf[p++] = 0x2c;
+      p = numInto(out, buf, p, st.argument, margin);
+      buf = out.buf;
+      buf[p++] = 0x2c;
+    } else {
+      buf[p++] = 0x2c;
+      buf[p++] = 0x2c;
+      buf[p++] = 0x2c;
+      buf[p++] = 0x2c;
+    }
+    q = contextInto(buf, p, s.context, cache.orders);
+    if (q < 0) {
+      q = textInto(out, buf, p, csvCell(formatContext(s.context)), 2);
+      buf = out.buf;
+    }
+    p = q;
+    buf[p++] = 0x0d;
+    buf[p++] = 0x0a;
+  }
+  out.pos = p;
+  return i;
+}
+
+/**
+ * Exactly the bytes of `Buffer.from(csvChunks(plan, nodes).join(""), "utf8")`, written as ASCII
+ * straight into a reused buffer and yielded in chunks of `chunkBytes` bytes (the last one may be
+ * shorter; rows run across chunk boundaries). Each chunk is a fresh copy that the generator never
+ * touches again, so a caller may keep or collect them.
+ *
+ * Cells that repeat are encoded once: the node cell per node, behaviours by text, locators and
+ * flavour lists by object (one locator per node and algorithm, flavour lists shared by all SIDs
+ * of a shape), each with the last one kept at hand; context keys per key list. Numbers, the
+ * function's hex digits, the SID address and context values are written character by character
+ * (contexts are mostly one object per SID, so they have no cache). Anything csvCell would change,
+ * or that is not ASCII, goes through csvCell and UTF-8 encoding.
+ */
+export function* csvByteChunks(plan: string, nodes: readonly NodeTable[], chunkBytes = 1 << 20): Generator<Uint8Array> {
+  if (!Number.isSafeInteger(chunkBytes) || chunkBytes < 1) throw new RangeError(`chunkBytes must be a whole number of at least 1, got ${chunkBytes}`);
+  // small at first (a table of one node, as --per-node writes, is often a few kB); grows by
+  // doubling to about a chunk
+  const out: ByteOut = { buf: new Uint8Array(Math.min(chunkBytes + 4096, 1 << 14)), pos: 0 };
+  out.pos = textInto(out, out.buf, 0, csvBanner(plan) + "\r\n" + CSV_HEADER.join(",") + "\r\n", 0);
+  const cache = new CellCache();
+  for (const n of nodes) {
+    const nodeBytes = cellBytes(n.node);
+    for (let i = 0; i < n.sids.length; ) {
+      i = writeRows(out, nodeBytes, n.sids, i, chunkBytes, cache);
+      if (out.pos >= chunkBytes) {
+        // cut off every whole chunk; the rest moves to the front
+        let at = 0;
+        while (out.pos - at >= chunkBytes) {
+          yield out.buf.slice(at, at + chunkBytes);
+          at += chunkBytes;
+        }
+        out.buf.copyWithin(0, at, out.pos);
+        out.pos -= at;
+      }
+    }
+  }
+  let at = 0;
+  while (out.pos - at > chunkBytes) {
+    yield out.buf.slice(at, at + chunkBytes);
+    at += chunkBytes;
+  }
+  if (out.pos > at) yield out.buf.slice(at, out.pos);
 }
 
 /** The whole table as one CSV string. */

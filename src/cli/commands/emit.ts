@@ -1,6 +1,6 @@
 /** `sidcarve emit PLAN --format csv|json [--out DIR] [--per-node]`: write the per-router SID tables. */
 import { join } from "node:path";
-import { csvChunks } from "../../emit/csv.js";
+import { csvByteChunks, csvChunks } from "../../emit/csv.js";
 import { jsonChunks } from "../../emit/json.js";
 import { safeFileName } from "../../emit/names.js";
 import type { Io } from "../context.js";
@@ -21,6 +21,8 @@ export function runEmit(planFile: string, flags: EmitFlags, io: Io): number {
   const a = lockedAllocation(plan, lockPathFor(planFile, flags.lock));
   const t = a.table;
   const chunks = (nodes: typeof t.nodes) => (flags.format === "csv" ? csvChunks(t.plan, nodes) : jsonChunks(t, nodes));
+  // files get CSV as bytes written straight into buffers (the same bytes as the strings' UTF-8)
+  const fileChunks = (nodes: typeof t.nodes) => (flags.format === "csv" ? csvByteChunks(t.plan, nodes) : jsonChunks(t, nodes));
   const ext = flags.format;
   if (!flags.out) {
     if (flags.perNode) throw new UsageError("--per-node needs --out DIR (one file per node)");
@@ -31,11 +33,11 @@ export function runEmit(planFile: string, flags: EmitFlags, io: Io): number {
     const files = t.nodes.map((n) => join(flags.out!, `${safeFileName(n.node)}.${ext}`));
     // check every target first, so a refusal never leaves half a set written
     checkWritable(files, { force: flags.force });
-    t.nodes.forEach((n, i) => writeAtomic(files[i]!, chunks([n]), { force: flags.force }));
+    t.nodes.forEach((n, i) => writeAtomic(files[i]!, fileChunks([n]), { force: flags.force }));
     io.out(`${t.nodes.length} ${ext.toUpperCase()} tables written to ${flags.out}/\n`);
   } else {
     const file = join(flags.out, `${safeFileName(plan.name)}.sids.${ext}`);
-    writeAtomic(file, chunks(t.nodes), { force: flags.force });
+    writeAtomic(file, fileChunks(t.nodes), { force: flags.force });
     io.out(`SID table written to ${file}\n`);
   }
   return 0;
