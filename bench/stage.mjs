@@ -17,7 +17,8 @@ const TODAY = "2026-06-01";
 const { loadPlanBytes } = await dist("plan/load.js");
 const { parseLock } = await dist("alloc/lock.js");
 const { allocate } = await dist("alloc/allocate.js");
-const { csvChunks } = await dist("emit/csv.js");
+// the CLI writes CSV files with csvByteChunks where the build has it (older builds: csvChunks)
+const { csvChunks, csvByteChunks } = await dist("emit/csv.js");
 const { jsonChunks } = await dist("emit/json.js");
 const engine = await dist("lint/engine.js");
 const { inputFromAllocation, inputFromTable } = await dist("lint/input.js");
@@ -132,7 +133,7 @@ switch (stage) {
     const a = allocated(plan, loadLockFor(plan));
     const { ms, last } = timed(() => {
       let bytes = 0;
-      const chunks = stage === "emit-csv" ? csvChunks(a.table.plan, a.table.nodes) : jsonChunks(a.table, a.table.nodes);
+      const chunks = stage === "emit-csv" ? (csvByteChunks ?? csvChunks)(a.table.plan, a.table.nodes) : jsonChunks(a.table, a.table.nodes);
       for (const c of chunks) bytes += c.length;
       return bytes;
     });
