@@ -351,6 +351,11 @@ export function readJsonTable(text: string): ReadTableResult {
       const algorithm = Number.isInteger(s.algorithm) ? s.algorithm : 0;
       const context: Record<string, string> = Object.create(null); // keys such as "__proto__" stay data
       if (s.context && typeof s.context === "object") for (const [k, v] of Object.entries(s.context)) context[k] = textOf(v);
+      // the same range the CSV reader accepts: IANA "SRv6 Endpoint Behaviors" codepoints are 16 bits
+      if (s.codepoint !== undefined && s.codepoint !== null && !(Number.isInteger(s.codepoint) && s.codepoint >= 0 && s.codepoint <= 65535)) {
+        bad("codepoint", `codepoint ${textOf(s.codepoint)} is not a whole number 0..65535`, s.codepoint);
+        continue;
+      }
       const codepoint = Number.isInteger(s.codepoint) ? s.codepoint : undefined;
       const sid: SidEntry = { sid: a.value, behavior: s.behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key: sidKeyFromContext(s.behavior, flavors, algorithm, context), row };
       entry.sids.push(sid);
