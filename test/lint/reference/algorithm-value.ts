@@ -1,36 +1,17 @@
 // Reference copy (object views) of src/lint/rules/algorithm-value.ts as it was before the port to the packed table.
 /** Algorithms are 0 (SPF), 1 (strict SPF) or a Flexible Algorithm 128-255; 2-127 are unassigned. */
 import type { Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 /** IANA IGP Algorithm Types: 0 and 1 assigned, 2-127 unassigned, 128-255 Flexible Algorithms (RFC 9350 §4). */
 const isUnassigned = (a: number) => a >= 2 && a <= 127;
 
 export const algorithmValue: Rule = {
-  meta: {
-    id: "algorithm-value",
-    severity: "error",
-    summary: "Use algorithm 0, 1 or a Flex-Algo 128-255.",
-    rationale:
-      "Locators and SIDs are advertised per algorithm. Values 2-127 are unassigned in the IGP Algorithm Types registry: no router computes paths for them, so locators of such an algorithm are never installed and their SIDs are unreachable.",
-    source: "RFC 9350 §4; IANA IGP Algorithm Types registry; RFC 9352 §7.1",
-    needs: "table",
-  },
+  meta: RULES["algorithm-value"].meta,
   check(ctx) {
     const plan = ctx.input.plan;
-    if (!ctx.input.fromTable && plan) {
-      // Blocks, nodes and services may only use declared algorithms, so the declarations say it all.
-      plan.algorithms.forEach((a, i) => {
-        if (!isUnassigned(a.id)) return; // IANA IGP Algorithm Types
-        ctx.report({
-          message: `algorithm ${a.id} (${a.name}) is unassigned; use 0 (SPF), 1 (strict SPF) or a Flex-Algo 128-255`,
-          location: ctx.locatePlan(["algorithms", i, "id"]),
-          objects: [a.name, String(a.id)],
-          hint: "Flex-Algos are numbered 128-255",
-          data: { algorithm: a.id, name: a.name },
-        });
-      });
-      return;
-    }
+    // A plan's block layouts: this branch did not change in the port, so it is the real rule's.
+    if (!ctx.input.fromTable && plan) return RULES["algorithm-value"].check(ctx);
     // Table: one finding per node and algorithm, located at the node's first row with it.
     const groups = new Map<string, { node: string; algorithm: number; sids: number; locators: number; row: number | undefined }>();
     const get = (node: string, algorithm: number) => {

@@ -4,17 +4,10 @@ import { formatAddr } from "../../../src/net/text.js";
 import { BEHAVIORS, isBehaviorName } from "../../../src/sid/behaviors.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
 import { blockScope, csidFlavorOf } from "./csid-length.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const argumentUse: Rule = {
-  meta: {
-    id: "argument-use",
-    severity: "error",
-    summary: "Give argument bits to End.DT2M and to no other uncompressed behaviour.",
-    rationale:
-      "Among the RFC 8986 behaviours only End.DT2M defines an argument (Arg.FE2, the split-horizon mapping for BUM flooding). A BGP receiver must check the argument length against the behaviour and ignores a SID that does not match; an End.DT2M without argument bits cannot carry split-horizon information. Compressed SIDs are exempt: they advertise the rest of the address as argument.",
-    source: "RFC 8986 §4.12; RFC 9252 §3.2.1; RFC 9800 §8",
-    needs: "table",
-  },
+  meta: RULES["argument-use"].meta,
   check(ctx) {
     const scopeOf = blockScope(ctx);
     const groups = new Map<string, { first: OwnedSid; count: number; kind: "unexpected" | "missing"; block?: { name: string; index: number; path: (string | number)[] } }>();

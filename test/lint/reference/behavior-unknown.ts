@@ -3,6 +3,7 @@
 import { formatAddr } from "../../../src/net/text.js";
 import { BEHAVIOR_NAMES, classifyCodepoint, isBehaviorName } from "../../../src/sid/behaviors.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 /**
  * Names printed by mistake in published texts, with the behaviour they mean:
@@ -34,15 +35,7 @@ function registeredElsewhere(): ReadonlySet<string> {
 const BY_LOWER: ReadonlyMap<string, string> = new Map(BEHAVIOR_NAMES.map((n) => [n.toLowerCase(), n]));
 
 export const behaviorUnknown: Rule = {
-  meta: {
-    id: "behavior-unknown",
-    severity: "error",
-    summary: "Name every SID's behaviour as the IANA registry spells it.",
-    rationale:
-      "The behaviour decides what a SID does and which codepoint, flavours and argument it may have; an unknown name cannot be checked against any of that and usually hides a typo or a misprint copied from a published text.",
-    source: "IANA SRv6 Endpoint Behaviors registry; RFC 8986 §4, §10.2.2",
-    needs: "table",
-  },
+  meta: RULES["behavior-unknown"].meta,
   check(ctx) {
     const other = registeredElsewhere();
     const groups = new Map<string, { first: OwnedSid; count: number }>();

@@ -3,17 +3,10 @@
 import { formatAddr } from "../../../src/net/text.js";
 import { type Flavor, classifyCodepoint, codepointOf, isBehaviorName, parseFlavor } from "../../../src/sid/behaviors.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const codepointMismatch: Rule = {
-  meta: {
-    id: "codepoint-mismatch",
-    severity: "error",
-    summary: "Advertise each SID with the codepoint of its own behaviour and flavours.",
-    rationale:
-      "The behaviour is not encoded in the SID's bits: the endpoint behaviour codepoint advertised beside the SID is all a headend or controller knows about it. A codepoint registered for another behaviour or flavour makes remote nodes use the SID for something it does not do (for example PSP where there is none).",
-    source: "IANA SRv6 Endpoint Behaviors registry; RFC 8986 §10.2.2; RFC 9800 Table 1",
-    needs: "table",
-  },
+  meta: RULES["codepoint-mismatch"].meta,
   check(ctx) {
     const groups = new Map<string, { first: OwnedSid; count: number; expected: number; means: string }>();
     for (const s of ctx.sids) {

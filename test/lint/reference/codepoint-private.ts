@@ -3,20 +3,13 @@
 import { formatAddr } from "../../../src/net/text.js";
 import { BEHAVIORS, classifyCodepoint, isBehaviorName } from "../../../src/sid/behaviors.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 /** Behaviours BGP advertises as services (RFC 8986 §8.4 Table 3): the only place the opaque codepoint is meant for. */
 const BGP_SERVICE_BINDINGS: ReadonlySet<string> = new Set(["vrf", "attachment-circuit", "bridge-domain"]);
 
 export const codepointPrivate: Rule = {
-  meta: {
-    id: "codepoint-private",
-    severity: "warning",
-    summary: "Keep private-use codepoints inside your own domain and the opaque codepoint for BGP service SIDs.",
-    rationale:
-      "Codepoints 32768-34815 are for private use: they mean something only to equipment configured the same way, so they must not leave the domain that agreed on them. Codepoint 65535 (opaque) lets a PE hide a service SID's behaviour in BGP; on a SID that the IGP or a controller must understand (End, End.X, End.T, binding SIDs) it hides what remote nodes need to know.",
-    source: "RFC 8986 §10.2.1, §8.3, §8.4; RFC 9252 §3.1; IANA SRv6 Endpoint Behaviors registry",
-    needs: "table",
-  },
+  meta: RULES["codepoint-private"].meta,
   check(ctx) {
     const groups = new Map<string, { first: OwnedSid; count: number; kind: "private-use" | "opaque-outside-bgp" }>();
     for (const s of ctx.sids) {

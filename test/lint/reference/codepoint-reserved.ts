@@ -3,17 +3,10 @@
 import { formatAddr } from "../../../src/net/text.js";
 import { REGISTRY_SNAPSHOT, classifyCodepoint } from "../../../src/sid/behaviors.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const codepointReserved: Rule = {
-  meta: {
-    id: "codepoint-reserved",
-    severity: "error",
-    summary: "Never advertise a reserved or unassigned behaviour codepoint.",
-    rationale:
-      "Codepoint 0 is never allocated, 25 is registered as reserved, 34816-65534 are reserved, and a value the registry does not list means nothing to other routers: the SID's behaviour cannot be known, so headends and controllers cannot use it safely.",
-    source: "RFC 8986 §10.2.1, §10.2.2; IANA SRv6 Endpoint Behaviors registry",
-    needs: "table",
-  },
+  meta: RULES["codepoint-reserved"].meta,
   check(ctx) {
     const groups = new Map<string, { first: OwnedSid; count: number; kind: "reserved" | "unassigned" }>();
     for (const s of ctx.sids) {

@@ -6,6 +6,7 @@ import { prefixMask } from "../../../src/net/uint128.js";
 import type { SourceLocation } from "../../../src/plan/diagnostic.js";
 import type { OwnedSid, Rule, RuleContext } from "../../../src/lint/types.js";
 import { type CsidFlavor, replace16Locators, shapeOf } from "./csid-length.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 /** Block lengths RFC 9800 §4.2 recommends for REPLACE-CSID, for easier reading in operation. */
 const REPLACE_RECOMMENDED: readonly number[] = [48, 56, 64, 72, 80];
@@ -47,34 +48,11 @@ function say(where: string, flavor: CsidFlavor, blockBits: number, csidBits: num
 }
 
 export const csidBlockLength: Rule = {
-  meta: {
-    id: "csid-block-length",
-    severity: "info",
-    summary: "Prefer the Locator-Block lengths RFC 9800 requires support for or recommends.",
-    rationale:
-      "Every NEXT-CSID node must support a 32-bit block with 16-bit C-SIDs; other combinations work only where all nodes support them. REPLACE-CSID blocks of 48 to 80 bits in steps of 8 are recommended for reading, and a REPLACE-CSID block longer than 128 minus the C-SID and index bits leaves no room for the index.",
-    source: "RFC 9800 §4.1, §4.2",
-    needs: "table",
-  },
+  meta: RULES["csid-block-length"].meta,
   check(ctx: RuleContext) {
     const plan = ctx.input.plan;
-    if (!ctx.input.fromTable && plan) {
-      for (const b of plan.blocks) {
-        const L = b.layout;
-        if (L.kind !== "compressed") continue;
-        const j = judge(L.flavor, L.blockBits, L.csidBits);
-        if (!j) continue;
-        const { message, hint } = say(`block ${b.name} (${b.prefix.format()})`, L.flavor, L.blockBits, L.csidBits, j);
-        ctx.report({
-          message,
-          location: ctx.locatePlan(["blocks", b.index, "prefix"]),
-          objects: [b.name, b.prefix.format()],
-          hint,
-          data: { block: b.name, flavor: L.flavor, blockBits: L.blockBits, csidBits: L.csidBits, kind: j.kind, ...(j.limit !== undefined ? { limit: j.limit } : {}) },
-        });
-      }
-      return;
-    }
+    // A plan's block layouts: this branch did not change in the port, so it is the real rule's.
+    if (!ctx.input.fromTable && plan) return RULES["csid-block-length"].check(ctx);
     // Table: one finding per Locator-Block prefix, flavour and C-SID length.
     const r16 = replace16Locators(ctx.sids);
     const groups = new Map<string, { first: OwnedSid; count: number; prefix: Prefix; flavor: CsidFlavor; csidBits: number }>();

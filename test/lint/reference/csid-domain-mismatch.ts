@@ -5,6 +5,7 @@ import { formatAddr } from "../../../src/net/text.js";
 import { prefixMask } from "../../../src/net/uint128.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
 import { replace16Locators, shapeOf } from "./csid-length.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 interface Tally {
   count: number;
@@ -35,15 +36,7 @@ function describe<K extends string | number>(m: Map<K, Tally>): { text: string; 
 }
 
 export const csidDomainMismatch: Rule = {
-  meta: {
-    id: "csid-domain-mismatch",
-    severity: "error",
-    summary: "Give all compressed SIDs of one Locator-Block the same block length, C-SID length and C-SID flavour.",
-    rationale:
-      "A source compresses consecutive SIDs into one container only when they share the Locator-Block, and REPLACE-CSID SIDs only when they also share the C-SID length; mixing lengths or flavours under one block makes SID lists longer or impossible to compress, and a block length stated differently by some SIDs means the sources disagree on where the C-SIDs start.",
-    source: "RFC 9800 §6.2, §6.3, §6.4, §9.1",
-    needs: "table",
-  },
+  meta: RULES["csid-domain-mismatch"].meta,
   check(ctx) {
     const r16 = replace16Locators(ctx.sids);
     // One domain per Locator-Block prefix, read from each SID with its own block length.

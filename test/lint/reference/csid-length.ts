@@ -1,63 +1,16 @@
 // Reference copy (object views) of src/lint/rules/csid-length.ts as it was before the port to the packed table.
 /**
- * Compressed SIDs use C-SIDs of 16 or 32 bits. This file also holds the reading of a compressed
- * SID's structure into C-SIDs that the other compressed-SID rules share.
+ * The old object-view helpers the compressed-SID reference rules share (the flavour and shape
+ * readings did not change in the port and come from src/lint/shared/csid.ts), and csid-length.
  */
 import { formatAddr } from "../../../src/net/text.js";
 import type { Addr } from "../../../src/net/uint128.js";
-import { parseFlavor } from "../../../src/sid/behaviors.js";
+import { type CsidFlavor, type CsidShape, csidFlavorOf, csidShape } from "../../../src/lint/shared/csid.js";
 import type { SidStructure } from "../../../src/sid/table.js";
 import type { OwnedSid, Rule, RuleContext } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
-/** The two C-SID flavours of RFC 9800. */
-export type CsidFlavor = "NEXT-CSID" | "REPLACE-CSID";
-
-/**
- * The C-SID flavour in a flavour list (any spelling {@link parseFlavor} reads), or undefined for an
- * uncompressed SID. A list holding both (illegal, reported by flavor-illegal) reads as NEXT-CSID.
- */
-export function csidFlavorOf(flavors: readonly string[]): CsidFlavor | undefined {
-  let replace = false;
-  for (const f of flavors) {
-    const p = parseFlavor(f);
-    if (p === "NEXT-CSID") return p;
-    if (p === "REPLACE-CSID") replace = true;
-  }
-  return replace ? "REPLACE-CSID" : undefined;
-}
-
-/**
- * How the node and function bits of a compressed SID form C-SIDs:
- * - `one`: a single C-SID of `length` = node + function bits (either part may be empty, RFC 9800 §2);
- * - `two`: a global (node) C-SID followed by a local (function) C-SID, both `length` bits
- *   (the combined global+local advertisement of RFC 9800 §8).
- */
-export interface CsidShape {
-  readonly kind: "one" | "two";
-  readonly length: number;
-}
-
-/**
- * Read a compressed SID's structure as C-SIDs. `replace16` says whether the SID's locator carries a
- * REPLACE-CSID SID advertised with node 16, function 0 (see {@link replace16Locators}).
- *
- * - NEXT-CSID, node = function > 0: two C-SIDs of `node` bits when that is 16 or 32 (global+local,
- *   RFC 9800 §8); other equal halves (e.g. 8 + 8) read as one C-SID of both halves.
- * - NEXT-CSID otherwise (function 0: global C-SID alone; node 0: local C-SID alone, RFC 9800 §5.3;
- *   or one C-SID holding node and function): one C-SID of node + function bits.
- * - REPLACE-CSID, node = function = 16 on a locator marked 16-bit: two 16-bit C-SIDs (RFC 9800 §6.4
- *   scheme detection); otherwise one C-SID of node + function bits (LNFL).
- */
-export function csidShape(flavor: CsidFlavor, st: SidStructure, replace16: boolean): CsidShape {
-  const n = st.node;
-  const f = st.function;
-  if (flavor === "NEXT-CSID") {
-    if (n > 0 && n === f && (n === 16 || n === 32)) return { kind: "two", length: n };
-    return { kind: "one", length: n + f };
-  }
-  if (n === 16 && f === 16 && replace16) return { kind: "two", length: 16 };
-  return { kind: "one", length: n + f };
-}
+export { type CsidFlavor, csidFlavorOf, csidShape };
 
 /** Key of a SID's locator taken from its own bits: the first block + node bits. */
 export function locatorKeyOf(sid: Addr, st: SidStructure): string {
@@ -110,15 +63,7 @@ export function blockScope(ctx: RuleContext): (s: OwnedSid) => { key: string; bl
 }
 
 export const csidLength: Rule = {
-  meta: {
-    id: "csid-length",
-    severity: "error",
-    summary: "Give compressed SIDs C-SIDs of 16 or 32 bits.",
-    rationale:
-      "RFC 9800 defines C-SID lengths of 16 and 32 bits only (NEXT-CSID must support a 32-bit block with 16-bit C-SIDs, REPLACE-CSID must support 32-bit C-SIDs). A source node cannot pack a C-SID of any other length into a container, so the SID is carried uncompressed or, worse, compressed wrongly by a node that guesses.",
-    source: "RFC 9800 §4.1, §4.2, §6.1, §6.4, §8",
-    needs: "table",
-  },
+  meta: RULES["csid-length"].meta,
   check(ctx) {
     const r16 = replace16Locators(ctx.sids);
     const scopeOf = blockScope(ctx);

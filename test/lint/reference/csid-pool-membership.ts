@@ -5,19 +5,12 @@ import { getField, prefixMask } from "../../../src/net/uint128.js";
 import type { Block, ValueRange } from "../../../src/plan/model.js";
 import { formatRange, inRanges } from "../../../src/plan/normalize.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 type Role = "node" | "local" | "csid";
 
 export const csidPoolMembership: Rule = {
-  meta: {
-    id: "csid-pool-membership",
-    severity: "error",
-    summary: "Take node C-SIDs from the block's global pool and local C-SIDs from its local pool.",
-    rationale:
-      "The pools are how a deployment keeps global C-SIDs (the same segment on every node) apart from local ones (a different segment on each node). A node C-SID outside the global pool can collide with a local C-SID elsewhere, and a local C-SID outside the local pool can shadow another node's global C-SID.",
-    source: "RFC 9800 §5, §5.1, §5.2, §9.2",
-    needs: "plan",
-  },
+  meta: RULES["csid-pool-membership"].meta,
   check(ctx) {
     const plan = ctx.input.plan!;
     // Compressed blocks by prefix length, then by first address: a SID finds its block in one

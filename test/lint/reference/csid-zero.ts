@@ -4,19 +4,12 @@ import { formatAddr } from "../../../src/net/text.js";
 import { getField } from "../../../src/net/uint128.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
 import { replace16Locators, shapeOf } from "./csid-length.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 type Role = "node" | "local" | "csid";
 
 export const csidZero: Rule = {
-  meta: {
-    id: "csid-zero",
-    severity: "error",
-    summary: "Never give a node or local C-SID the value 0.",
-    rationale:
-      "C-SID value 0 is reserved: it marks the end of a C-SID container. A node C-SID of 0, or a local C-SID of 0, makes a source node that packs the SID end the container early, so the packet stops at the wrong node or is dropped.",
-    source: "RFC 9800 §5, §4.2",
-    needs: "table",
-  },
+  meta: RULES["csid-zero"].meta,
   check(ctx) {
     const r16 = replace16Locators(ctx.sids);
     const groups = new Map<string, { first: OwnedSid; count: number; role: Role; examples: string[] }>();

@@ -3,17 +3,10 @@
 import { formatAddr } from "../../../src/net/text.js";
 import { type Flavor, FLAVOR_ORDER, flavorProblem, isBehaviorName, normalizeFlavors, parseFlavor } from "../../../src/sid/behaviors.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const flavorIllegal: Rule = {
-  meta: {
-    id: "flavor-illegal",
-    severity: "error",
-    summary: "Use only registered flavour names, and only on behaviours the registry gives them to.",
-    rationale:
-      "PSP, USP and USD are variants of End, End.X and End.T only; NEXT-CSID and REPLACE-CSID exist for the behaviours RFC 9800 lists, never together. A flavour the behaviour does not have has no codepoint, so the router either refuses the SID or advertises something other than what the plan says.",
-    source: "RFC 8986 §4.16; RFC 9800 §4, §10; IANA SRv6 Endpoint Behaviors registry",
-    needs: "table",
-  },
+  meta: RULES["flavor-illegal"].meta,
   check(ctx) {
     const groups = new Map<string, { first: OwnedSid; count: number; unknown: string[]; problem: string | undefined }>();
     for (const s of ctx.sids) {

@@ -3,17 +3,10 @@
 import type { Prefix } from "../../../src/net/prefix.js";
 import type { SourceLocation } from "../../../src/plan/diagnostic.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const hostBits: Rule = {
-  meta: {
-    id: "host-bits",
-    severity: "error",
-    summary: "Write locators and blocks with every bit after the prefix length cleared.",
-    rationale:
-      "A prefix such as 5f00:0:100:1::1/64 is not the prefix its text shows: the address left of the slash must expand to the intended prefix. Tools that mask it silently and tools that refuse it disagree, so the locator advertised and the locator planned may differ.",
-    source: "RFC 4291 §2.3; RFC 9352 §7.1 (locator bits past Loc-Size are zero)",
-    needs: "table",
-  },
+  meta: RULES["host-bits"].meta,
   check(ctx) {
     const plan = ctx.input.plan;
     if (!ctx.input.fromTable && plan) {

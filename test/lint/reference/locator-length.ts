@@ -2,17 +2,10 @@
 /** A SID's locator is as long as the block and node bits of its structure. */
 import { formatAddr } from "../../../src/net/text.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const locatorLength: Rule = {
-  meta: {
-    id: "locator-length",
-    severity: "error",
-    summary: "Make each locator exactly as long as the block plus node bits of its SIDs.",
-    rationale:
-      "The locator is the block followed by the node (L = LB + LN). A locator advertised at another length than the SID structure states either covers other nodes' SIDs or leaves part of the node's own SIDs unrouted, and the structure no longer describes the SID.",
-    source: "RFC 8986 §3.1; RFC 9352 §9; RFC 9800 §2",
-    needs: "table",
-  },
+  meta: RULES["locator-length"].meta,
   check(ctx) {
     // One finding per node, locator and stated block + node length.
     const groups = new Map<string, { first: OwnedSid; count: number }>();

@@ -1,17 +1,10 @@
 // Reference copy (object views) of src/lint/rules/locator-overlap.ts as it was before the port to the packed table.
 /** Locators of different nodes must not overlap, unless the nodes share a declared anycast group. */
 import type { Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const locatorOverlap: Rule = {
-  meta: {
-    id: "locator-overlap",
-    severity: "error",
-    summary: "Keep the locators of different nodes apart unless they are a declared anycast group.",
-    rationale:
-      "A locator routes to the node that owns it; two nodes advertising overlapping locators split or steal each other's traffic. Only anycast locators may be shared, and they must be flagged as anycast in the IGP.",
-    source: "RFC 9352 §6; RFC 9513 §6; RFC 8986 §3.1",
-    needs: "table",
-  },
+  meta: RULES["locator-overlap"].meta,
   check(ctx) {
     const plan = ctx.input.plan;
     const groupsOf = new Map<string, Set<string>>();

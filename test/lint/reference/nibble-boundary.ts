@@ -2,6 +2,7 @@
 /** Block, locator and function boundaries fall on multiples of 4 bits (one hex digit). */
 import { formatAddr } from "../../../src/net/text.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 /** The boundaries (bit offsets) that are not multiples of 4, as "block 45, locator 61". */
 function offNibble(blockBits: number, nodeBits: number, functionBits: number): string[] {
@@ -14,32 +15,10 @@ function offNibble(blockBits: number, nodeBits: number, functionBits: number): s
 }
 
 export const nibbleBoundary: Rule = {
-  meta: {
-    id: "nibble-boundary",
-    severity: "info",
-    summary: "Put block, locator and function boundaries on 4-bit (hex digit) boundaries.",
-    rationale:
-      "A boundary inside a hex digit makes SIDs hard to read and compare by eye (the node and function share a digit), and reverse DNS delegations in ip6.arpa, which go one hex digit at a time, cannot follow it.",
-    source: "common practice; RFC 3596 §2.5",
-    needs: "table",
-  },
+  meta: RULES["nibble-boundary"].meta,
   check(ctx) {
-    const plan = ctx.input.plan;
-    if (!ctx.input.fromTable && plan) {
-      for (const b of plan.blocks) {
-        const L = b.layout;
-        const off = offNibble(L.blockBits, L.nodeBits, L.functionBits);
-        if (off.length === 0) continue;
-        ctx.report({
-          message: `block ${b.name} (${b.prefix.format()}) has boundaries inside a hex digit: ${off.join(", ")} bits`,
-          location: ctx.locatePlan(off[0]!.startsWith("block") ? ["blocks", b.index, "prefix"] : ["blocks", b.index, L.kind === "classic" ? "structure" : "compression"]),
-          objects: [b.name, b.prefix.format()],
-          hint: "choose block, node and function lengths that are multiples of 4 bits",
-          data: { block: b.name, boundaries: off.join(", "), blockBits: L.blockBits, nodeBits: L.nodeBits, functionBits: L.functionBits },
-        });
-      }
-      return;
-    }
+    // A plan's block layouts: this branch did not change in the port, so it is the real rule's.
+    if (!ctx.input.fromTable && ctx.input.plan) return RULES["nibble-boundary"].check(ctx);
     // Table: one finding per distinct structure (a layout choice, not a per-SID fault).
     const offByStructure = new Map<string, string[]>();
     const groups = new Map<string, { first: OwnedSid; count: number; nodes: Set<string>; off: string[] }>();

@@ -2,17 +2,10 @@
 /** A SID address belongs to exactly one binding on one node (anycast members excepted). */
 import { formatAddr } from "../../../src/net/text.js";
 import type { Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const sidDuplicate: Rule = {
-  meta: {
-    id: "sid-duplicate",
-    severity: "error",
-    summary: "Use every SID once: not on two nodes, not twice on one node.",
-    rationale:
-      "A SID names one behaviour on one node. The same address on two nodes sends traffic to whichever is closer; twice on one node it binds two behaviours to one address and one of them is lost. Members of an anycast group share the SIDs under the anycast locator by design.",
-    source: "RFC 8986 §3.1; RFC 9352 §6 (anycast)",
-    needs: "table",
-  },
+  meta: RULES["sid-duplicate"].meta,
   check(ctx) {
     const plan = ctx.input.plan;
     const groupsOf = new Map<string, Set<string>>();

@@ -2,17 +2,10 @@
 /** Every SID lies inside a locator of its own node with the same algorithm. */
 import { formatAddr } from "../../../src/net/text.js";
 import type { Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const sidOutsideLocator: Rule = {
-  meta: {
-    id: "sid-outside-locator",
-    severity: "error",
-    summary: "Allocate every SID from a locator of its own node and algorithm.",
-    rationale:
-      "Routers ignore an End or End.X SID that is not inside a locator the same node advertises for the same topology and algorithm, and the SID is unreachable: reachability comes only from the locator advertisement. A SID under a locator of another algorithm follows the wrong paths.",
-    source: "RFC 9352 §7.2, §8; RFC 9513 §8, §9; RFC 8986 §3.3",
-    needs: "table",
-  },
+  meta: RULES["sid-outside-locator"].meta,
   check(ctx) {
     const byNode = new Map<string, typeof ctx.locators[number][]>();
     for (const l of ctx.locators) {

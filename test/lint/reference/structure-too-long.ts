@@ -2,38 +2,13 @@
 /** A SID structure (block + node + function + argument) fits the 128 bits of an IPv6 address. */
 import { formatAddr } from "../../../src/net/text.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const structureTooLong: Rule = {
-  meta: {
-    id: "structure-too-long",
-    severity: "error",
-    summary: "Keep block + node + function + argument within 128 bits.",
-    rationale:
-      "A SID is one IPv6 address: block, node, function and argument are carved from its 128 bits. A structure that adds up to more cannot describe any SID, and an IGP receiver ignores the SID whose SID Structure says so.",
-    source: "RFC 8986 §3.1; RFC 9352 §9; RFC 9513 §10; RFC 9252 §3.2.1",
-    needs: "table",
-  },
+  meta: RULES["structure-too-long"].meta,
   check(ctx) {
-    const plan = ctx.input.plan;
-    if (!ctx.input.fromTable && plan) {
-      // A plan's SIDs are carved from its block layouts, so judge the layouts (one finding per block).
-      for (const b of plan.blocks) {
-        const L = b.layout;
-        // Under NEXT-CSID, End.DT2M has no compressed codepoint and takes the block's argument bits
-        // after node and function; REPLACE-CSID SIDs advertise the rest of the address as argument.
-        const argumentBits = L.kind === "classic" || L.flavor === "NEXT-CSID" ? L.argumentBits : 0;
-        const total = L.blockBits + L.nodeBits + L.functionBits + argumentBits;
-        if (total <= 128) continue; // RFC 8986 §3.1: L + F + A <= 128
-        ctx.report({
-          message: `block ${b.name} (${b.prefix.format()}) lays SIDs out as block ${L.blockBits} + node ${L.nodeBits} + function ${L.functionBits} + argument ${argumentBits} = ${total} bits; at most 128 fit an IPv6 address`,
-          location: ctx.locatePlan(["blocks", b.index, L.kind === "classic" ? "structure" : "compression"]),
-          objects: [b.name, b.prefix.format()],
-          hint: "shorten the block prefix, the node or function field, or the argument so the sum is 128 or less",
-          data: { block: b.name, blockBits: L.blockBits, nodeBits: L.nodeBits, functionBits: L.functionBits, argumentBits, total },
-        });
-      }
-      return;
-    }
+    // A plan's block layouts: this branch did not change in the port, so it is the real rule's.
+    if (!ctx.input.fromTable && ctx.input.plan) return RULES["structure-too-long"].check(ctx);
     // Table: one finding per node and structure, not per SID.
     const groups = new Map<string, { first: OwnedSid; count: number }>();
     for (const s of ctx.sids) {

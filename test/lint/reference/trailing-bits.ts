@@ -4,17 +4,10 @@ import { formatAddr } from "../../../src/net/text.js";
 import { hostMask } from "../../../src/net/uint128.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
 import { csidFlavorOf } from "./csid-length.js";
+import { RULES } from "../../../src/lint/rules/index.js";
 
 export const trailingBits: Rule = {
-  meta: {
-    id: "trailing-bits",
-    severity: "error",
-    summary: "Leave every bit after a SID's block, node, function and argument at zero.",
-    rationale:
-      "When a SID uses fewer than 128 bits, the rest must be zero; a SID with stray low bits is not the SID its structure describes, and whoever builds SID lists from the structure will build another address. Compressed SIDs advertise the rest of the address as argument, and that argument must be zero in the advertised SID.",
-    source: "RFC 8986 §3.1; RFC 9800 §8",
-    needs: "table",
-  },
+  meta: RULES["trailing-bits"].meta,
   check(ctx) {
     const groups = new Map<string, { first: OwnedSid; count: number; used: number; kind: "trailing" | "argument"; examples: string[] }>();
     for (const s of ctx.sids) {

@@ -12,6 +12,8 @@ import type { Block, Group, Plan, PoolKind } from "../../../src/plan/model.js";
 import { rangeSize } from "../../../src/plan/normalize.js";
 import { classifyCodepoint } from "../../../src/sid/behaviors.js";
 import type { OwnedLocator, OwnedSid, Rule, RuleContext } from "../../../src/lint/types.js";
+import { RULES } from "../../../src/lint/rules/index.js";
+import { groupPlanPath } from "../../../src/lint/shared/summary.js";
 
 // ---- locator-outside-block
 /**
@@ -102,15 +104,7 @@ export function locatorsByPrefix(ctx: RuleContext): { prefix: Prefix; algorithm:
 }
 
 export const locatorOutsideBlock: Rule = {
-  meta: {
-    id: "locator-outside-block",
-    severity: "error",
-    summary: "Carve every locator out of a declared SID block.",
-    rationale:
-      "A locator is the block followed by the node bits (B:N). A locator outside every declared block escapes the filters that keep SRv6 traffic inside the domain, since the edge drops only packets to the SID block, and it cannot be summarised with the rest of the plan.",
-    source: "RFC 8986 §3.1 (locator = B:N); RFC 8754 §5.1 (one SID block filtered at the edge)",
-    needs: "plan",
-  },
+  meta: RULES["locator-outside-block"].meta,
   check(ctx) {
     const plan = ctx.input.plan!;
     const blocks = new PrefixIndex(plan.blocks.map((b) => ({ prefix: b.prefix, value: b })));
@@ -271,15 +265,7 @@ const RESERVED: ReadonlySet<SpaceCategory> = new Set<SpaceCategory>([
 ]);
 
 export const reservedSpace: Rule = {
-  meta: {
-    id: "reserved-space",
-    severity: "error",
-    summary: "Take blocks, locators and SIDs only from space meant for SRv6: not from loopback, link-local, multicast, IPv4-embedding, transition, other protocol or IETF-reserved ranges.",
-    rationale:
-      "These ranges have a fixed meaning: routers refuse to forward some of them (loopback, link-local, site-local), others belong to transition mechanisms or other protocols, and IETF-reserved space may be assigned tomorrow. SIDs there are dropped or collide with that use. 5f00::/16 is the range set aside for SRv6 SIDs.",
-    source: "IANA IPv6 Special-Purpose Address Registry; IANA IPv6 Address Space registry; RFC 4291; RFC 3879; RFC 9602",
-    needs: "table",
-  },
+  meta: RULES["reserved-space"].meta,
   check(ctx) {
     for (const h of scanSpecialSpace(ctx, RESERVED)) {
       const p = h.subject.kind === "sid" ? formatAddr(h.subject.sid!.entry.sid) : h.subject.prefix.format();
@@ -298,15 +284,7 @@ export const reservedSpace: Rule = {
 const DOCUMENTATION: ReadonlySet<SpaceCategory> = new Set<SpaceCategory>(["documentation"]);
 
 export const documentationSpace: Rule = {
-  meta: {
-    id: "documentation-space",
-    severity: "warning",
-    summary: "Keep documentation prefixes out of plans meant for a real network.",
-    rationale:
-      "2001:db8::/32 and 3fff::/20 are reserved for examples: they must not carry real traffic or be advertised, and should not be used for routed production traffic inside a network either; many filters drop them as bogons. Fine in a lab or a demo, wrong in production (set lint.production: true to make it an error).",
-    source: "RFC 3849; RFC 9637 §4",
-    needs: "table",
-  },
+  meta: RULES["documentation-space"].meta,
   check(ctx) {
     const production = ctx.input.plan?.lint.production === true;
     for (const h of scanSpecialSpace(ctx, DOCUMENTATION)) {
@@ -339,15 +317,7 @@ const NOTE: Readonly<Record<string, { say: string; source: string }>> = {
 };
 
 export const edgeFiltering: Rule = {
-  meta: {
-    id: "edge-filtering",
-    severity: "info",
-    summary: "Filter the SID block at every edge of the domain; know what the space you chose implies.",
-    rationale:
-      "SRv6 trusts the SID list, so packets to SIDs must come only from inside the domain: every external interface drops traffic to the SID block. 5f00::/16 makes this easy because it is not globally reachable; unique-local space needs a random Global ID; global unicast space leaks if one edge forgets the filter.",
-    source: "RFC 8754 §5.1; RFC 9602 §5-7; RFC 4193 §3.2, §4.3",
-    needs: "table",
-  },
+  meta: RULES["edge-filtering"].meta,
   check(ctx) {
     for (const h of scanSpecialSpace(ctx, EDGE)) {
       const note = NOTE[h.row.category]!;
@@ -372,15 +342,7 @@ interface CollisionItem {
 }
 
 export const infrastructureCollision: Rule = {
-  meta: {
-    id: "infrastructure-collision",
-    severity: "error",
-    summary: "Keep SID blocks, locators and SIDs apart from the infrastructure prefixes (loopbacks, links, customers).",
-    rationale:
-      "The domain's edge filters and the per-node SID filters tell SID space from infrastructure and end-user space by prefix. A SID block that overlaps loopbacks, link subnets or customer space cannot be filtered as a trust boundary, and the same address ends up with two meanings.",
-    source: "RFC 8986 §9 (SID space distinct from infrastructure and end-user space); RFC 8754 §5.1",
-    needs: "plan",
-  },
+  meta: RULES["infrastructure-collision"].meta,
   check(ctx) {
     const plan = ctx.input.plan!;
     if (plan.infrastructure.length === 0) return;
@@ -438,15 +400,7 @@ interface TheftItem {
 }
 
 export const longestMatchTheft: Rule = {
-  meta: {
-    id: "longest-match-theft",
-    severity: "warning",
-    summary: "Keep more specific prefixes out of a locator so it stays the longest match for its SIDs.",
-    rationale:
-      "Routers forward on the longest matching prefix. A locator of another node, a locator of another algorithm, or an infrastructure prefix that is more specific than a locator and lies inside it pulls that part of the locator's space to another place or another topology: SIDs there become unreachable or follow the wrong algorithm.",
-    source: "RFC 9352 §5; RFC 9513 §5",
-    needs: "table",
-  },
+  meta: RULES["longest-match-theft"].meta,
   check(ctx) {
     const plan = ctx.input.plan;
     const where = locatorLocator(ctx);
@@ -527,15 +481,7 @@ export const longestMatchTheft: Rule = {
 
 // ---- block-aggregation
 export const blockAggregation: Rule = {
-  meta: {
-    id: "block-aggregation",
-    severity: "warning",
-    summary: "Take all SIDs of the domain from one aggregatable block.",
-    rationale:
-      "Every external interface must drop packets to the SID block; with SIDs in one block S/s that is one filter entry everywhere. SIDs spread over blocks that do not aggregate need one entry per block on every edge, and an edge that misses one lets outside traffic steer through the domain.",
-    source: "RFC 8754 §5.1 (one block S/s filtered at every edge); RFC 8986 §9",
-    needs: "table",
-  },
+  meta: RULES["block-aggregation"].meta,
   check(ctx) {
     const plan = ctx.input.plan;
     // The block length of a bare table: the most common advertised structure.block (the
@@ -601,15 +547,7 @@ export const blockAggregation: Rule = {
 const signature = (s: OwnedSid) => `${formatAddr(s.entry.sid)} ${s.entry.behavior}${s.entry.flavors.length ? "+" + [...s.entry.flavors].sort().join("+") : ""} a${s.entry.algorithm}`;
 
 export const anycastMismatch: Rule = {
-  meta: {
-    id: "anycast-mismatch",
-    severity: "error",
-    summary: "Give every member of an anycast locator the same SIDs under it.",
-    rationale:
-      "Traffic to an anycast locator reaches whichever member is closest. A SID that only some members instantiate is dropped, or runs another behaviour, depending on where the packet enters; which member answers changes with every topology change.",
-    source: "RFC 9352 §6; RFC 9513 §6 (all nodes sharing an anycast locator MUST instantiate the same SIDs)",
-    needs: "table",
-  },
+  meta: RULES["anycast-mismatch"].meta,
   check(ctx) {
     const plan = ctx.input.plan;
     const planNode = new Map(plan?.nodes.map((n) => [n.name, n]) ?? []);
@@ -703,15 +641,7 @@ export function isBehavior(s: OwnedSid, name: string): boolean {
 }
 
 export const missingEnd: Rule = {
-  meta: {
-    id: "missing-end",
-    severity: "error",
-    summary: "Give every node an End SID of its own for each of its algorithms.",
-    rationale:
-      "The End SID is how a segment list names a node; without one for an algorithm, no policy or repair path can steer traffic through the node in that topology, and Flex-Algo repair (LFA) needs one per node and algorithm. An End SID under a shared anycast locator names the group, not the node.",
-    source: "RFC 9350 §14.2; RFC 9513 §8 (every SRv6 router SHOULD advertise at least one End SID)",
-    needs: "table",
-  },
+  meta: RULES["missing-end"].meta,
   check(ctx) {
     const plan = ctx.input.plan;
     const planNode = new Map(plan?.nodes.map((n) => [n.name, n]) ?? []);
@@ -754,15 +684,7 @@ export const missingEnd: Rule = {
 
 // ---- missing-endx
 export const missingEndx: Rule = {
-  meta: {
-    id: "missing-endx",
-    severity: "warning",
-    summary: "Give both ends of every link an End.X SID for each algorithm the link carries.",
-    rationale:
-      "End.X SIDs name adjacencies: explicit paths and repair paths (TI-LFA style) are built from them. A link end without one for an algorithm cannot be used by a repair path in that Flex-Algo, and policies cannot pin traffic to the link.",
-    source: "RFC 9350 §14.2 (LFA for a Flex-Algo needs an End.X SID per link)",
-    needs: "plan",
-  },
+  meta: RULES["missing-endx"].meta,
   check(ctx) {
     const plan = ctx.input.plan!;
     const algosOf = new Map(plan.nodes.map((n) => [n.name, n.algorithms]));
@@ -810,15 +732,7 @@ export const missingEndx: Rule = {
 const SERVES = { ipv4: ["End.DT4", "End.DT46"], ipv6: ["End.DT6", "End.DT46"] } as const;
 
 export const missingVrfSid: Rule = {
-  meta: {
-    id: "missing-vrf-sid",
-    severity: "error",
-    summary: "Give every PE of a VRF its per-VRF End.DT4, End.DT6 or End.DT46 SID.",
-    rationale:
-      "A remote PE sends VPN traffic to the egress PE's per-VRF service SID; a PE that lacks it for a family cannot decapsulate into the VRF, so the VPN is advertised but black-holes that family.",
-    source: "RFC 9252 §5 (per-VRF service SIDs); RFC 8986 §4.6-4.8",
-    needs: "plan",
-  },
+  meta: RULES["missing-vrf-sid"].meta,
   check(ctx) {
     const plan = ctx.input.plan!;
     const inTable = new Set(ctx.input.table.nodes.map((n) => n.node));
@@ -863,15 +777,7 @@ const share = (used: bigint, cap: bigint) => `${used} of ${cap} (${cap > 0n ? Ma
 const num = (v: bigint): number | string => (v <= BigInt(Number.MAX_SAFE_INTEGER) ? Number(v) : v.toString());
 
 export const capacity: Rule = {
-  meta: {
-    id: "capacity",
-    severity: "warning",
-    summary: "Leave growth room in every level, function pool and C-SID pool.",
-    rationale:
-      "A full level means the next site or router needs a renumbering of its neighbours; a full pool means the next adjacency or VRF has no function value. RFC 5375 advises keeping a growth zone per delegation; the threshold (80 % by default) is our own choice, not a standard.",
-    source: "common practice; RFC 5375 §2.4 (growth room)",
-    needs: "plan",
-  },
+  meta: RULES["capacity"].meta,
   check(ctx) {
     const plan = ctx.input.plan!;
     const threshold = plan.lint.capacityThreshold;
@@ -978,11 +884,6 @@ export function isUnder(place: string, group: string): boolean {
   return place === group || place.startsWith(group + "/");
 }
 
-/** The plan path of a group: groups.north.groups.quay. */
-export function groupPlanPath(path: string): (string | number)[] {
-  return ["groups", ...path.split("/").flatMap((p, i) => (i === 0 ? [p] : ["groups", p]))];
-}
-
 /** A locator prefix (one per prefix and algorithm) with its holders. */
 export type LocatorGroup = ReturnType<typeof locatorsByPrefix>[number];
 
@@ -1069,15 +970,7 @@ const names = (ls: readonly LocatorGroup[]) => [...new Set(ls.flatMap((l) => l.h
 const few = (xs: readonly string[]) => xs.slice(0, 5).join(", ") + (xs.length > 5 ? `, and ${xs.length - 5} more` : "");
 
 export const summaryLeak: Rule = {
-  meta: {
-    id: "summary-leak",
-    severity: "error",
-    summary: "Make each group's summary cover all of its own locators and none of anybody else's.",
-    rationale:
-      "A region or site border advertises its summary instead of each locator. A member locator outside the summary must leak as a more specific route; another node's locator inside it draws that node's traffic into the wrong region. Either way the aggregation the plan promises does not hold.",
-    source: "RFC 5375 §2.4; RFC 3531 (aggregation); common practice for region summaries",
-    needs: "plan",
-  },
+  meta: RULES["summary-leak"].meta,
   check(ctx) {
     const plan = ctx.input.plan!;
     const alloc = ctx.input.allocation;
@@ -1143,67 +1036,9 @@ export const summaryLeak: Rule = {
   },
 };
 
-// ---- summary-overlap
-export const summaryOverlap: Rule = {
-  meta: {
-    id: "summary-overlap",
-    severity: "error",
-    summary: "Give sibling groups disjoint summaries.",
-    rationale:
-      "Two regions (or two sites of one region) that advertise overlapping summaries both claim the shared space: traffic for it goes to whichever border is closer, and a node numbered there is reachable from one side only.",
-    source: "RFC 5375 §2.4; RFC 3531 (aggregation); common practice for region summaries",
-    needs: "plan",
-  },
-  check(ctx) {
-    const plan = ctx.input.plan!;
-    const byParent = new Map<string, Group[]>();
-    for (const g of plan.groups) {
-      if (!g.summary) continue;
-      const k = g.parent ?? "";
-      const list = byParent.get(k) ?? [];
-      list.push(g);
-      byParent.set(k, list);
-    }
-    for (const [, list] of [...byParent.entries()].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))) {
-      const sorted = [...list].sort((a, b) => {
-        const pa = a.summary!.masked();
-        const pb = b.summary!.masked();
-        return pa.first < pb.first ? -1 : pa.first > pb.first ? 1 : pa.len - pb.len || a.order - b.order;
-      });
-      // Sweep with a stack of open summaries: prefixes nest or are disjoint, so each summary meets
-      // exactly the earlier ones that contain it.
-      const open: Group[] = [];
-      for (const g of sorted) {
-        const p = g.summary!.masked();
-        while (open.length > 0 && open[open.length - 1]!.summary!.masked().last < p.first) open.pop();
-        for (const o of open) {
-          const a = o.summary!.masked().format();
-          const b = p.format();
-          ctx.report({
-            message: a === b ? `sibling groups ${o.path} and ${g.path} declare the same summary ${a}` : `summary ${b} of group ${g.path} lies inside summary ${a} of its sibling ${o.path}`,
-            location: ctx.locatePlan([...groupPlanPath(g.path), "summary"]),
-            objects: [o.path, g.path, a, b],
-            hint: "give each sibling its own part of the parent's space",
-            data: { group: g.path, other: o.path, summary: b, otherSummary: a },
-          });
-        }
-        open.push(g);
-      }
-    }
-  },
-};
-
 // ---- summary-unclean
 export const summaryUnclean: Rule = {
-  meta: {
-    id: "summary-unclean",
-    severity: "warning",
-    summary: "Number each group's nodes so that one prefix covers them and nothing else.",
-    rationale:
-      "A region or site summarises its locators with one prefix only if no other node's locator sits among them. Otherwise the smallest covering prefix swallows foreign locators, and the group can only be advertised piecemeal, which defeats aggregation.",
-    source: "RFC 5375 §2.4; RFC 3531 (aggregation); common practice for region summaries",
-    needs: "table",
-  },
+  meta: RULES["summary-unclean"].meta,
   check(ctx) {
     const plan = ctx.input.plan;
     if (!plan) return; // groups come from the plan; a bare table has none
@@ -1257,6 +1092,5 @@ export const REFERENCE_RULES: readonly Rule[] = [
   missingVrfSid,
   capacity,
   summaryLeak,
-  summaryOverlap,
   summaryUnclean,
 ];
