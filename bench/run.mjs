@@ -241,7 +241,8 @@ if (!flag("no-write")) {
 // ---------------------------------------------------------------- the document
 function renderDoc(s, before) {
   const sec = (ms) => (ms === undefined || Number.isNaN(ms) ? "–" : ms >= 10000 ? `${(ms / 1000).toFixed(1)} s` : `${(ms / 1000).toFixed(2)} s`);
-  const mb = (kb) => (kb === undefined || Number.isNaN(kb) ? "–" : `${Math.round(kb / 1024)} MB`);
+  // a run that was stopped has no peak memory (NaN, or null once saved as JSON)
+  const mb = (kb) => (kb === undefined || kb === null || Number.isNaN(kb) ? "–" : `${Math.round(kb / 1024)} MB`);
   const rate = (n, ms) => (ms && Number.isFinite(n) ? `${Math.round(n / (ms / 1000)).toLocaleString("en-US")}` : "–");
   const num = (n) => (Number.isFinite(n) ? n.toLocaleString("en-US") : "–");
   const beforeOf = (routers) => before?.results.find((r) => r.routers === routers);
