@@ -3,6 +3,7 @@
  * ctx.locators), kept as the readable reference for the packed rules in src/lint/rules: the tests
  * run both on random tables and plans and require the same findings. Not used by the program.
  */
+import { capacityReporter, reportCsidPools, reportLevelsAndPools } from "../../../src/lint/rules/capacity.js";
 import { Prefix, collapse, comparePrefixes, coveringPrefix } from "../../../src/net/prefix.js";
 import { type SpaceCategory, type SpaceRange, classify, rangesOverlapping } from "../../../src/net/special.js";
 import { formatAddr } from "../../../src/net/text.js";
@@ -770,50 +771,14 @@ export const missingVrfSid: Rule = {
 };
 
 // ---- capacity
-/** Share of a capacity, for messages: "13 of 15 (87 %)". */
-const share = (used: bigint, cap: bigint) => `${used} of ${cap} (${cap > 0n ? Math.floor(Number((used * 1000n) / cap)) / 10 : 100} %)`;
-
-/** A bigint as data: a number when it is exact, its decimal text otherwise. */
-const num = (v: bigint): number | string => (v <= BigInt(Number.MAX_SAFE_INTEGER) ? Number(v) : v.toString());
-
+// Only the C-SID counting changed in the port (object views -> packed columns); the threshold,
+// the level and pool findings and the GIB/LIB findings are the rule's own (capacity.ts exports).
 export const capacity: Rule = {
   meta: RULES["capacity"].meta,
   check(ctx) {
     const plan = ctx.input.plan!;
-    const threshold = plan.lint.capacityThreshold;
-    // used / capacity > threshold, in exact integers (threshold to 1e-6).
-    const over = (used: bigint, cap: bigint) => cap <= 0n ? used > 0n : used * 1_000_000n > cap * BigInt(Math.round(threshold * 1_000_000));
-    const pct = `${Math.round(threshold * 1000) / 10} %`;
-    const report = (kind: string, name: string, where: string, used: bigint, cap: bigint, location: SourceLocation, objects: string[], hint: string) =>
-      ctx.report({
-        message: `${kind} ${name} is ${share(used, cap)} full${where ? ` in ${where}` : ""}, above the ${pct} threshold`,
-        location,
-        objects,
-        hint,
-        data: { kind, name, where, used: num(used), capacity: num(cap), threshold },
-      });
-
-    const alloc = ctx.input.allocation;
-    if (alloc) {
-      // Levels: the allocator reports the fullest parent of each level.
-      for (const u of alloc.levelUsage) {
-        if (!over(u.used, u.capacity)) continue;
-        const i = plan.levels.findIndex((l) => l.name === u.name);
-        const where = u.fullest === "(top)" ? "" : (u.fullest ?? "");
-        report("level", u.name, where, u.used, u.capacity, ctx.locatePlan(["levels", i, "bits"]), [u.name, ...(where ? [where] : [])], "widen the level (more bits) before it fills, or split the fullest part");
-      }
-      // Function pools: "block/kind", the fullest locator of that block.
-      for (const u of alloc.poolUsage) {
-        if (!over(u.used, u.capacity)) continue;
-        const cut = u.name.lastIndexOf("/");
-        const blockName = u.name.slice(0, cut);
-        const kind = u.name.slice(cut + 1) as PoolKind;
-        const b = plan.blocks.find((x) => x.name === blockName);
-        const location = plan.functionPools[kind] ? ctx.locatePlan(["function-pools", kind]) : ctx.locatePlan(b ? ["blocks", b.index] : []);
-        const where = (u.fullest ?? "").replace(/^anycast:/, "anycast group ");
-        report("pool", u.name, where, u.used, u.capacity, location, [u.name, ...(where ? [u.fullest!] : [])], "widen the pool or the function field");
-      }
-    }
+    const r = capacityReporter(ctx);
+    reportLevelsAndPools(ctx, r);
 
     // GIB and LIB of compressed blocks (RFC 9800 §5), counted from the table so that an inventory
     // linted with --plan is judged too. Two-C-SID layouts: one global C-SID per locator (anycast
@@ -853,28 +818,7 @@ export const capacity: Rule = {
         globals.set(b.name, set);
       }
     }
-    for (const b of compressed) {
-      if (b.layout.kind !== "compressed") continue;
-      const gib = rangeSize(b.layout.gib);
-      const used = BigInt(globals.get(b.name)?.size ?? 0);
-      if (gib > 0n && over(used, gib)) {
-        const what = b.layout.twoCsid ? "node C-SIDs" : "C-SIDs";
-        report("gib", b.name, "", used, gib, ctx.locatePlan(["blocks", b.index, "compression", "global-pool"]), [b.name], `widen the global pool (GIB) of block ${b.name}; ${what} come from it`);
-      }
-      const lib = rangeSize(b.layout.lib);
-      if (!b.layout.twoCsid || lib === 0n) continue;
-      let fullest = "";
-      let max = 0n;
-      for (const [key, set] of [...(locals.get(b.name) ?? new Map<string, Set<bigint>>()).entries()].sort(([a], [c]) => (a < c ? -1 : a > c ? 1 : 0))) {
-        if (BigInt(set.size) > max) {
-          max = BigInt(set.size);
-          fullest = key.slice(0, key.lastIndexOf("|"));
-        }
-      }
-      if (over(max, lib)) {
-        report("lib", b.name, fullest, max, lib, ctx.locatePlan(["blocks", b.index, "compression", "local-pool"]), [b.name, fullest], `widen the local pool (LIB) of block ${b.name}, or move services off ${fullest}`);
-      }
-    }
+    reportCsidPools(ctx, r, compressed, { globals, locals });
   },
 };
 
