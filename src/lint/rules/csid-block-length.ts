@@ -12,7 +12,7 @@ const REPLACE_RECOMMENDED: readonly number[] = [48, 56, 64, 72, 80];
 type Kind = "next-not-32-16" | "replace-not-recommended" | "replace-limit";
 
 /** What to say about a block length, or undefined when there is nothing to say. */
-function judge(flavor: CsidFlavor, blockBits: number, csidBits: number): { kind: Kind; limit?: number } | undefined {
+export function judge(flavor: CsidFlavor, blockBits: number, csidBits: number): { kind: Kind; limit?: number } | undefined {
   if (csidBits !== 16 && csidBits !== 32) return undefined; // csid-length reports it
   if (flavor === "NEXT-CSID") {
     // RFC 9800 §4.1: a 32-bit block with 16-bit C-SIDs MUST be supported; others MAY be.
@@ -25,7 +25,7 @@ function judge(flavor: CsidFlavor, blockBits: number, csidBits: number): { kind:
   return REPLACE_RECOMMENDED.includes(blockBits) ? undefined : { kind: "replace-not-recommended" };
 }
 
-function say(where: string, flavor: CsidFlavor, blockBits: number, csidBits: number, j: { kind: Kind; limit?: number }): { message: string; hint: string } {
+export function say(where: string, flavor: CsidFlavor, blockBits: number, csidBits: number, j: { kind: Kind; limit?: number }): { message: string; hint: string } {
   switch (j.kind) {
     case "next-not-32-16":
       return {

@@ -7,45 +7,9 @@ import type { SourceLocation } from "../../../src/plan/diagnostic.js";
 import type { OwnedSid, Rule, RuleContext } from "../../../src/lint/types.js";
 import { type CsidFlavor, replace16Locators, shapeOf } from "./csid-length.js";
 import { RULES } from "../../../src/lint/rules/index.js";
+import { judge, say } from "../../../src/lint/rules/csid-block-length.js";
 
-/** Block lengths RFC 9800 §4.2 recommends for REPLACE-CSID, for easier reading in operation. */
-const REPLACE_RECOMMENDED: readonly number[] = [48, 56, 64, 72, 80];
-
-type Kind = "next-not-32-16" | "replace-not-recommended" | "replace-limit";
-
-/** What to say about a block length, or undefined when there is nothing to say. */
-function judge(flavor: CsidFlavor, blockBits: number, csidBits: number): { kind: Kind; limit?: number } | undefined {
-  if (csidBits !== 16 && csidBits !== 32) return undefined; // csid-length reports it
-  if (flavor === "NEXT-CSID") {
-    // RFC 9800 §4.1: a 32-bit block with 16-bit C-SIDs MUST be supported; others MAY be.
-    return blockBits === 32 && csidBits === 16 ? undefined : { kind: "next-not-32-16" };
-  }
-  // RFC 9800 §4.2: LBL at most 128 - LNFL - ceil(log2(128 / LNFL)) (the index bits).
-  const limit = 128 - csidBits - Math.ceil(Math.log2(128 / csidBits));
-  if (blockBits > limit) return { kind: "replace-limit", limit };
-  // RFC 9800 §4.2: 48, 56, 64, 72 or 80 bits are recommended.
-  return REPLACE_RECOMMENDED.includes(blockBits) ? undefined : { kind: "replace-not-recommended" };
-}
-
-function say(where: string, flavor: CsidFlavor, blockBits: number, csidBits: number, j: { kind: Kind; limit?: number }): { message: string; hint: string } {
-  switch (j.kind) {
-    case "next-not-32-16":
-      return {
-        message: `${where} uses NEXT-CSID with a ${blockBits}-bit block and ${csidBits}-bit C-SIDs; every NEXT-CSID node must support a 32-bit block with 16-bit C-SIDs, other combinations only may be supported`,
-        hint: "check that every node of the domain supports this block and C-SID length, or use a /32 block with 16-bit C-SIDs",
-      };
-    case "replace-limit":
-      return {
-        message: `${where} uses REPLACE-CSID with a ${blockBits}-bit block and ${csidBits}-bit C-SIDs; the block may be at most ${j.limit} bits (128 - C-SID ${csidBits} - index ${128 - csidBits - j.limit!} bits)`,
-        hint: `shorten the block to /${j.limit} or less`,
-      };
-    case "replace-not-recommended":
-      return {
-        message: `${where} uses REPLACE-CSID with a ${blockBits}-bit block; blocks of ${REPLACE_RECOMMENDED.join(", ")} bits are recommended for easier reading`,
-        hint: `consider a block of ${REPLACE_RECOMMENDED.join(", ")} bits`,
-      };
-  }
-}
+// judge and say (the judgement and the wording) did not change in the port: they are the rule's own
 
 export const csidBlockLength: Rule = {
   meta: RULES["csid-block-length"].meta,
