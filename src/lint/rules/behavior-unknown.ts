@@ -8,7 +8,7 @@ import type { Rule } from "../types.js";
  * RFC 8986 §8.4 Table 3 writes "End.B6.BM" for End.BM; RFC 9513 §11 writes "End.DT64" for codepoint 20
  * (End.DT46); draft-ietf-spring-srv6-srh-compression-04 writes "End.DX2U" for codepoint 123 (End.DT2U).
  */
-const MISPRINTS: ReadonlyMap<string, { name: string; where: string }> = new Map([
+export const MISPRINTS: ReadonlyMap<string, { name: string; where: string }> = new Map([
   ["End.B6.BM", { name: "End.BM", where: "RFC 8986 §8.4 Table 3" }],
   ["End.DT64", { name: "End.DT46", where: "RFC 9513 §11" }],
   ["End.DX2U", { name: "End.DT2U", where: "draft-ietf-spring-srv6-srh-compression-04" }],

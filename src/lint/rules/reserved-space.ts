@@ -8,7 +8,7 @@ import type { Rule } from "../types.js";
 import { hitLabel, scanSpecialSpace } from "../shared/space.js";
 
 /** The categories this rule refuses (IANA IPv6 Special-Purpose Address Registry; IANA IPv6 Address Space registry). */
-const RESERVED: ReadonlySet<SpaceCategory> = new Set<SpaceCategory>([
+export const RESERVED: ReadonlySet<SpaceCategory> = new Set<SpaceCategory>([
   "loopback", // RFC 4291
   "unspecified", // RFC 4291
   "ipv4-mapped", // RFC 4291

@@ -4,17 +4,9 @@ import { formatAddr } from "../../../src/net/text.js";
 import { BEHAVIOR_NAMES, classifyCodepoint, isBehaviorName } from "../../../src/sid/behaviors.js";
 import type { OwnedSid, Rule } from "../../../src/lint/types.js";
 import { RULES } from "../../../src/lint/rules/index.js";
+import { MISPRINTS } from "../../../src/lint/rules/behavior-unknown.js";
 
-/**
- * Names printed by mistake in published texts, with the behaviour they mean:
- * RFC 8986 §8.4 Table 3 writes "End.B6.BM" for End.BM; RFC 9513 §11 writes "End.DT64" for codepoint 20
- * (End.DT46); draft-ietf-spring-srv6-srh-compression-04 writes "End.DX2U" for codepoint 123 (End.DT2U).
- */
-const MISPRINTS: ReadonlyMap<string, { name: string; where: string }> = new Map([
-  ["End.B6.BM", { name: "End.BM", where: "RFC 8986 §8.4 Table 3" }],
-  ["End.DT64", { name: "End.DT46", where: "RFC 9513 §11" }],
-  ["End.DX2U", { name: "End.DT2U", where: "draft-ietf-spring-srv6-srh-compression-04" }],
-]);
+// MISPRINTS is the rule's own (unchanged in the port)
 
 let otherNames: ReadonlySet<string> | undefined;
 /**

@@ -4,6 +4,7 @@
  * run both on random tables and plans and require the same findings. Not used by the program.
  */
 import { capacityReporter, reportCsidPools, reportLevelsAndPools } from "../../../src/lint/rules/capacity.js";
+import { RESERVED } from "../../../src/lint/rules/reserved-space.js";
 import { Prefix, collapse, comparePrefixes, coveringPrefix } from "../../../src/net/prefix.js";
 import { type SpaceCategory, type SpaceRange, classify, rangesOverlapping } from "../../../src/net/special.js";
 import { formatAddr } from "../../../src/net/text.js";
@@ -242,28 +243,7 @@ export function hitLabel(h: SpaceHit): string {
   return h.subject.kind === "sid" && h.count > 1 ? `${h.count} SIDs of ${h.subject.sid!.node} (first ${formatAddr(h.subject.sid!.entry.sid)})` : h.subject.label;
 }
 
-/** The categories this rule refuses (IANA IPv6 Special-Purpose Address Registry; IANA IPv6 Address Space registry). */
-const RESERVED: ReadonlySet<SpaceCategory> = new Set<SpaceCategory>([
-  "loopback", // RFC 4291
-  "unspecified", // RFC 4291
-  "ipv4-mapped", // RFC 4291
-  "ipv4-compatible", // RFC 4291 §2.5.5.1 (deprecated)
-  "link-local", // RFC 4291 §2.5.6: routers must not forward it
-  "multicast", // RFC 4291 §2.7
-  "site-local-deprecated", // RFC 3879 §4
-  "6to4", // RFC 3056
-  "teredo", // RFC 4380
-  "discard", // RFC 6666
-  "benchmarking", // RFC 5180
-  "nat64", // RFC 6052, RFC 8215
-  "orchid", // RFC 4843, RFC 7343
-  "ietf-protocol", // RFC 2928
-  "other-special", // AMT, AS112, DETs: IANA IPv6 Special-Purpose Address Registry
-  "anycast-service", // RFC 7723, RFC 8155
-  // "Reserved by IETF" space (IANA IPv6 Address Space registry). 5f00::/16 inside 4000::/3 is a
-  // more specific row of its own (RFC 9602), so it never lands here.
-  "reserved-by-ietf",
-]);
+// RESERVED is the rule's own (unchanged in the port)
 
 export const reservedSpace: Rule = {
   meta: RULES["reserved-space"].meta,
