@@ -490,11 +490,8 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   }
   if (diags.length > 0 || (moves.length > 0 && !allow)) return { ok: false, diagnostics: diags, moves };
 
-  // functions of owners that left the plan
-  for (const [owner, fns] of lock.functions) {
-    if (functionsOut.has(owner) || placeOf.has(owner)) continue;
-    void fns; // the owner's node value is retired; its locator with it, so its functions need not be kept
-  }
+  // Functions of owners that left the plan are not kept: the owner's node value is retired, and
+  // its locator with it.
   const newRetired = dedupeRetired([...retired, ...retiredNow]);
   const newLock: Lock = {
     plan: plan.name,

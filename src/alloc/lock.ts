@@ -35,7 +35,8 @@ export function emptyLock(plan: string, layout: string): Lock {
 
 const hex = (v: bigint) => "0x" + v.toString(16);
 
-function body(lock: Lock): Record<string, unknown> {
+/** The lock as the plain object its text holds (without the digest): the readable form of serializeLock. */
+export function lockBody(lock: Lock): Record<string, unknown> {
   const sortObj = <T>(m: ReadonlyMap<string, T>, f: (v: T) => unknown) =>
     Object.fromEntries([...m.keys()].sort().map((k) => [k, f(m.get(k)!)]));
   return {
@@ -59,8 +60,8 @@ function digestOf(b: Record<string, unknown>): string {
 
 /**
  * Deterministic text of a lock (same lock, same bytes), ending in a newline: exactly
- * `JSON.stringify({ ...body(lock), digest }, null, 2) + "\n"`, where the digest is the SHA-256 of
- * `JSON.stringify(body(lock))`. Written directly, the two forms side by side, because a lock of
+ * `JSON.stringify({ ...lockBody(lock), digest }, null, 2) + "\n"`, where the digest is the SHA-256 of
+ * `JSON.stringify(lockBody(lock))`. Written directly, the two forms side by side, because a lock of
  * a million SIDs would otherwise be turned into objects and stringified twice (the readable form
  * is `body`; tests compare the two on random locks).
  */
@@ -172,11 +173,6 @@ function isArrayIndex(k: string): boolean {
 
 function sortedRetired(list: readonly RetiredValue[]): RetiredValue[] {
   return [...list].sort((a, b) => cmp(a.kind, b.kind) || cmp(a.space, b.space) || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0) || cmp(a.was, b.was));
-}
-
-/** The lock as the plain object its text holds (without the digest): the readable form of serializeLock. */
-export function lockBody(lock: Lock): Record<string, unknown> {
-  return body(lock);
 }
 
 /**
