@@ -5,6 +5,7 @@
  */
 import { createHash } from "node:crypto";
 import type { Diagnostic } from "../plan/diagnostic.js";
+import { readLockFast } from "./lock-fast.js";
 
 export const LOCK_SCHEMA_ID = "sidcarve/lock/v1";
 
@@ -175,11 +176,24 @@ function sortedRetired(list: readonly RetiredValue[]): RetiredValue[] {
   return [...list].sort((a, b) => cmp(a.kind, b.kind) || cmp(a.space, b.space) || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0) || cmp(a.was, b.was));
 }
 
+export type LockRead = { ok: true; lock: Lock } | { ok: false; diagnostics: Diagnostic[] };
+
 /**
- * Read a lock. Problems — not JSON, truncated, wrong schema, a digest that does not match
- * (hand-edited), or a lock of another plan — are diagnostics; the caller must then write nothing.
+ * Read a lock, from its text or its bytes (UTF-8). Problems — not JSON, truncated, wrong schema, a
+ * digest that does not match (hand-edited), or a lock of another plan — are diagnostics; the
+ * caller must then write nothing. An intact lock is read by the fast reader (lock-fast.ts);
+ * anything it is not sure of is read by parseLockReadable, which is the reference.
  */
-export function parseLock(text: string, file: string, planName: string): { ok: true; lock: Lock } | { ok: false; diagnostics: Diagnostic[] } {
+export function parseLock(input: string | Uint8Array, file: string, planName: string): LockRead {
+  const bytes = typeof input === "string" ? Buffer.from(input, "utf8") : input;
+  const lock = readLockFast(bytes);
+  if (lock !== undefined && lock.plan === planName) return { ok: true, lock };
+  const text = typeof input === "string" ? input : Buffer.from(input.buffer, input.byteOffset, input.byteLength).toString("utf8");
+  return parseLockReadable(text, file, planName);
+}
+
+/** The readable lock reader: JSON.parse, then JSON.stringify again for the digest. */
+export function parseLockReadable(text: string, file: string, planName: string): LockRead {
   const fail = (code: string, message: string) => ({ ok: false as const, diagnostics: [{ code, message, location: { file } }] });
   let data: any;
   try {
@@ -237,6 +251,11 @@ export function lockValue(s: unknown): bigint {
     n = n * 16 + d;
   }
   if (s.length > 2 + 13) return BigInt(s); // beyond 2^52 a double would round; the digits were checked above
+  return smallBigInt(n);
+}
+
+/** BigInt(n) for a safe integer n >= 0, shared for the small values. */
+export function smallBigInt(n: number): bigint {
   if (n < SMALL_LIMIT) return (SMALL_VALUES[n] ??= BigInt(n));
   return BigInt(n);
 }

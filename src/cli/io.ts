@@ -38,15 +38,22 @@ export function readInput(file: string): Uint8Array {
   }
 }
 
-/** Read a file as text if it exists, else undefined. */
-export function readIfExists(file: string): string | undefined {
+/** Read a file's bytes if it exists, else undefined. */
+export function readBytesIfExists(file: string): Buffer | undefined {
   try {
-    return readFileSync(file, "utf8");
+    return readFileSync(file);
   } catch (e) {
     if ((e as NodeJS.ErrnoException).code === "ENOENT") return undefined;
     throw new UsageError(`${file}: cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`);
   }
 }
+
+/** Whether two file contents (bytes or text, undefined for no file) are the same bytes. */
+export function sameContent(a: Buffer | string | undefined, b: Buffer | string | undefined): boolean {
+  if (a === undefined || b === undefined) return a === b;
+  return Buffer.from(a).equals(Buffer.from(b));
+}
+
 
 /** True when the file at `path` was written by sidcarve (recognised by its first bytes). */
 export function isOurFile(path: string): boolean {

@@ -7,7 +7,7 @@ import { type Lock, parseLock } from "../alloc/lock.js";
 import { type Allocation, type AllocateOptions, allocate } from "../alloc/allocate.js";
 import { loadPlanBytes } from "../plan/load.js";
 import type { Plan } from "../plan/model.js";
-import { UsageError, readIfExists, readInput } from "./io.js";
+import { UsageError, readBytesIfExists, readInput } from "./io.js";
 
 /** The lock file that belongs to a plan: beside it, `<name>.lock.json`, unless given. */
 export function lockPathFor(planFile: string, explicit?: string): string {
@@ -22,13 +22,13 @@ export function loadPlanFile(file: string): Plan {
   return r.plan;
 }
 
-/** Read the plan's lock; undefined when there is none yet. The raw text is returned for the change check. */
-export function loadLock(plan: Plan, lockFile: string): { lock: Lock | undefined; text: string | undefined } {
-  const text = readIfExists(lockFile);
-  if (text === undefined) return { lock: undefined, text };
-  const r = parseLock(text, lockFile, plan.name);
+/** Read the plan's lock; undefined when there is none yet. The raw bytes are returned for the change check. */
+export function loadLock(plan: Plan, lockFile: string): { lock: Lock | undefined; bytes: Buffer | undefined } {
+  const bytes = readBytesIfExists(lockFile);
+  if (bytes === undefined) return { lock: undefined, bytes };
+  const r = parseLock(bytes, lockFile, plan.name);
   if (!r.ok) throw new UsageError(`${lockFile}: the lock cannot be used`, r.diagnostics);
-  return { lock: r.lock, text };
+  return { lock: r.lock, bytes };
 }
 
 /** Allocate, turning refusals into a UsageError that lists every move. */

@@ -6,7 +6,8 @@
 import { createHash } from "node:crypto";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { type Lock, type RetiredValue, lockBody, parseLock, serializeLock } from "../../src/alloc/lock.js";
+import { type Lock, type RetiredValue, lockBody, parseLock, parseLockReadable, serializeLock } from "../../src/alloc/lock.js";
+import { readLockFast } from "../../src/alloc/lock-fast.js";
 
 /** The readable reference: build the object, stringify it twice. */
 function reference(lock: Lock): string {
@@ -53,6 +54,58 @@ describe("serializeLock", () => {
         if (r.ok) expect(serializeLock(r.lock)).toBe(serializeLock(lock));
       }),
       { numRuns: 200 },
+    );
+  });
+});
+
+/** What a read gives, comparable: the lock's text again, or the diagnostics' codes. */
+function outcome(r: ReturnType<typeof parseLockReadable>): string {
+  return r.ok ? serializeLock(r.lock) : "fail:" + r.diagnostics.map((d) => d.code).join(",");
+}
+
+describe("readLockFast (the fast reader) against parseLockReadable (JSON.parse, the reference)", () => {
+  it("reads every intact lock to the same maps, in the same order", () => {
+    fc.assert(
+      fc.property(lockArb, (lock) => {
+        const text = serializeLock(lock);
+        const fast = readLockFast(Buffer.from(text));
+        expect(fast).toBeDefined();
+        const ref = parseLockReadable(text, "x.lock.json", lock.plan);
+        expect(ref.ok).toBe(true);
+        if (!ref.ok || !fast) return;
+        for (const k of ["groups", "nodes", "functions"] as const) expect([...fast[k].keys()]).toEqual([...ref.lock[k].keys()]);
+        expect(fast).toEqual(ref.lock);
+      }),
+      { numRuns: 300 },
+    );
+  });
+  it("gives way (or agrees) on damaged, reformatted and hand-edited locks", () => {
+    const edits = fc.oneof(
+      // cut it short
+      fc.nat().map((n) => (t: string) => t.slice(0, n % (t.length + 1))),
+      // change one character
+      fc.tuple(fc.nat(), fc.constantFrom("0", "1", "f", "F", "x", " ", "\n", '"', "\\", ",", "}", "é")).map(([n, ch]) => (t: string) => {
+        const at = n % t.length;
+        return t.slice(0, at) + ch + t.slice(at + 1);
+      }),
+      // reformat: compact, CRLF, tabs (the digest covers the compact form, so these still match)
+      fc.constantFrom(
+        (t: string) => JSON.stringify(JSON.parse(t)),
+        (t: string) => t.replace(/\n/g, "\r\n"),
+        (t: string) => t.replace(/ {2}/g, "\t"),
+        (t: string) => "\ufeff" + t,
+        (t: string) => t + "x",
+        (t: string) => t.replace(/"0x/, '"0X'),
+      ),
+    );
+    fc.assert(
+      fc.property(lockArb, edits, (lock, edit) => {
+        const text = edit(serializeLock(lock));
+        expect(outcome(parseLock(text, "x.lock.json", lock.plan))).toBe(outcome(parseLockReadable(text, "x.lock.json", lock.plan)));
+        expect(outcome(parseLock(Buffer.from(text), "x.lock.json", lock.plan))).toBe(outcome(parseLockReadable(text, "x.lock.json", lock.plan)));
+        expect(outcome(parseLock(text, "x.lock.json", "another-plan"))).toBe(outcome(parseLockReadable(text, "x.lock.json", "another-plan")));
+      }),
+      { numRuns: 600 },
     );
   });
 });

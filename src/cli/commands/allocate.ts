@@ -3,7 +3,7 @@ import { serializeLock } from "../../alloc/lock.js";
 import { allocationSummary } from "../../emit/summary.js";
 import type { Io } from "../context.js";
 import type { Plan } from "../../plan/model.js";
-import { UsageError, readIfExists, withBusyMarker, writeAtomic } from "../io.js";
+import { UsageError, readBytesIfExists, sameContent, withBusyMarker, writeAtomic } from "../io.js";
 import { allocateOrFail, loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
 
 export interface AllocateFlags {
@@ -22,7 +22,7 @@ export function runAllocate(planFile: string, flags: AllocateFlags, io: Io): num
 }
 
 function allocateHolding(plan: Plan, lockFile: string, flags: AllocateFlags, io: Io): number {
-  const { lock, text } = loadLock(plan, lockFile);
+  const { lock, bytes } = loadLock(plan, lockFile);
   const a = allocateOrFail(plan, lock, { allowRenumber: flags.allowRenumber === true });
   const newText = serializeLock(a.lock);
   const sids = a.table.nodes.reduce((s, n) => s + n.sids.length, 0);
@@ -33,12 +33,12 @@ function allocateHolding(plan: Plan, lockFile: string, flags: AllocateFlags, io:
     io.out(`dry run: ${lockFile} not written\n`);
     return 0;
   }
-  if (newText === text) {
+  if (sameContent(newText, bytes)) {
     io.out(`lock ${lockFile} unchanged\n`);
     return 0;
   }
   // Another run may have written the lock since we read it: refuse rather than lose its values.
-  if (readIfExists(lockFile) !== text) {
+  if (!sameContent(readBytesIfExists(lockFile), bytes)) {
     throw new UsageError(`${lockFile}: the lock changed while this run was working (another sidcarve run?); nothing was written, run again`);
   }
   writeAtomic(lockFile, [newText]);

@@ -2,7 +2,7 @@
 import { releaseRetired, serializeLock } from "../../alloc/lock.js";
 import type { Io } from "../context.js";
 import type { Plan } from "../../plan/model.js";
-import { UsageError, readIfExists, withBusyMarker, writeAtomic } from "../io.js";
+import { UsageError, readBytesIfExists, sameContent, withBusyMarker, writeAtomic } from "../io.js";
 import { loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
 
 export interface ReleaseFlags {
@@ -19,7 +19,7 @@ export function runRelease(planFile: string, names: readonly string[], flags: Re
 }
 
 function releaseHolding(plan: Plan, lockFile: string, names: readonly string[], flags: ReleaseFlags, io: Io): number {
-  const { lock, text } = loadLock(plan, lockFile);
+  const { lock, bytes } = loadLock(plan, lockFile);
   if (!lock) throw new UsageError(`${lockFile}: no lock yet; nothing is retired`);
   const { lock: next, released } = releaseRetired(lock, flags.all ? "all" : names);
   if (released.length === 0) {
@@ -27,7 +27,7 @@ function releaseHolding(plan: Plan, lockFile: string, names: readonly string[], 
     return 0;
   }
   for (const r of released) io.out(`released ${r.kind} value 0x${r.value.toString(16)} in ${JSON.stringify(r.space)} (was ${r.was})\n`);
-  if (readIfExists(lockFile) !== text) throw new UsageError(`${lockFile}: the lock changed while this run was working; nothing was written, run again`);
+  if (!sameContent(readBytesIfExists(lockFile), bytes)) throw new UsageError(`${lockFile}: the lock changed while this run was working; nothing was written, run again`);
   writeAtomic(lockFile, [serializeLock(next)]);
   io.out(`lock written to ${lockFile}\n`);
   return 0;

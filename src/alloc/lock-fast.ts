@@ -1,0 +1,227 @@
+/**
+ * A fast reader for lock files as serializeLock writes them: one pass over the bytes that builds
+ * the lock's maps directly, and one that hashes the compact JSON (the text without the
+ * whitespace between tokens and without the digest member) for the digest check. JSON.parse of a
+ * pretty-printed lock of a million SIDs, then JSON.stringify again for the digest, costs several
+ * times more.
+ *
+ * It answers only when it is sure: the layout of a lock (these keys, in this order, strings
+ * only), a schema that matches and a digest that matches the compact bytes. Anything else — a
+ * hand edit, another shape, a number where a string belongs, a bad value — returns undefined and
+ * the caller reads the lock the readable way (JSON.parse), which gives the diagnostics. When the
+ * digest matches, the bytes are those serializeLock wrote, so the maps hold what JSON.parse would
+ * give, in the same order (tests compare the two on random and damaged locks).
+ */
+import { type Hash, createHash } from "node:crypto";
+import { LOCK_SCHEMA_ID, type Lock, type RetiredValue, smallBigInt } from "./lock.js";
+
+class NotALock extends Error {}
+const NOT = new NotALock("not the lock layout");
+const fail = (): never => {
+  throw NOT;
+};
+
+const QUOTE = 0x22;
+const BACKSLASH = 0x5c;
+const KINDS = new Set(["group", "node", "function"]);
+
+/** Bytes as Latin-1 text; Buffer's own latin1Slice where present (toString checks its arguments first). */
+type Latin1 = { latin1Slice?: (start: number, end: number) => string };
+const latin1 = (b: Buffer, start: number, end: number): string =>
+  (b as unknown as Latin1).latin1Slice ? (b as unknown as Required<Latin1>).latin1Slice(start, end) : b.toString("latin1", start, end);
+
+/**
+ * Feed the compact form of b[0, end) — every byte except whitespace outside strings — to the
+ * hash, a megabyte at a time. Only meaningful for text that parses, which the caller checks.
+ */
+function hashCompact(hash: Hash, b: Buffer, end: number): void {
+  const CHUNK = 1 << 20;
+  const out = Buffer.allocUnsafe(CHUNK + 2);
+  let o = 0;
+  let inString = false;
+  for (let i = 0; i < end; i++) {
+    const c = b[i]!;
+    if (inString) {
+      out[o++] = c;
+      if (c === BACKSLASH) out[o++] = b[++i]!;
+      else if (c === QUOTE) inString = false;
+    } else if (c !== 0x20 && c !== 0x0a && c !== 0x0d && c !== 0x09) {
+      out[o++] = c;
+      if (c === QUOTE) inString = true;
+    }
+    if (o >= CHUNK) {
+      hash.update(out.subarray(0, o));
+      o = 0;
+    }
+  }
+  hash.update(out.subarray(0, o));
+}
+
+/** The lock in `bytes`, or undefined when the fast reader is not sure (see above). */
+export function readLockFast(bytes: Uint8Array): Lock | undefined {
+  const b = Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const n = b.length;
+  let i = 0;
+
+  const ws = () => {
+    while (i < n) {
+      const c = b[i]!;
+      if (c === 0x20 || c === 0x0a || c === 0x0d || c === 0x09) i++;
+      else break;
+    }
+  };
+  const punct = (ch: number) => {
+    ws();
+    if (b[i] !== ch) fail();
+    i++;
+  };
+  const str = (): string => {
+    ws();
+    if (b[i] !== QUOTE) fail();
+    const open = i++;
+    let plain = true;
+    let escaped = false;
+    for (;;) {
+      if (i >= n) fail();
+      const c = b[i]!;
+      if (c === QUOTE) break;
+      if (c < 0x20) fail();
+      i++;
+      if (c === BACKSLASH) {
+        i++;
+        escaped = true;
+      } else if (c >= 0x80) plain = false;
+    }
+    const end = i++;
+    if (escaped) return JSON.parse(b.toString("utf8", open, end + 1)) as string;
+    return plain ? latin1(b, open + 1, end) : b.toString("utf8", open + 1, end);
+  };
+  /** A lock value `"0x..."` read from the bytes (lockValue's rules: lower-case hex digits). */
+  const hexValue = (): bigint => {
+    ws();
+    if (b[i] !== QUOTE || b[i + 1] !== 0x30 || b[i + 2] !== 0x78) fail();
+    const start = i + 1;
+    i += 3;
+    let v = 0;
+    for (;;) {
+      if (i >= n) fail();
+      const c = b[i]!;
+      if (c === QUOTE) break;
+      const d = c >= 0x30 && c <= 0x39 ? c - 0x30 : c >= 0x61 && c <= 0x66 ? c - 0x57 : -1;
+      if (d < 0) fail();
+      v = v * 16 + d;
+      i++;
+    }
+    const digits = i - start - 2;
+    i++;
+    if (digits === 0) fail();
+    if (digits > 13) return BigInt(latin1(b, start, i - 1));
+    return smallBigInt(v);
+  };
+  const field = (name: string): void => {
+    if (str() !== name) fail();
+    punct(0x3a);
+  };
+  /** `{ "k": value, ... }`, calling `member` for each key with the cursor at its value. */
+  const members = (member: (key: string) => void) => {
+    punct(0x7b);
+    ws();
+    if (b[i] === 0x7d) {
+      i++;
+      return;
+    }
+    for (;;) {
+      const key = str();
+      punct(0x3a);
+      member(key);
+      ws();
+      const c = b[i++];
+      if (c === 0x7d) return;
+      if (c !== 0x2c) fail();
+    }
+  };
+
+  try {
+    punct(0x7b);
+    field("schema");
+    if (str() !== LOCK_SCHEMA_ID) return undefined;
+    punct(0x2c);
+    field("plan");
+    const plan = str();
+    punct(0x2c);
+    field("layout");
+    const layout = str();
+    punct(0x2c);
+    field("groups");
+    const groups = new Map<string, bigint>();
+    members((k) => groups.set(k, hexValue()));
+    punct(0x2c);
+    field("nodes");
+    const nodes = new Map<string, { place: string; value: bigint }>();
+    members((k) => {
+      punct(0x7b);
+      field("place");
+      const place = str();
+      punct(0x2c);
+      field("value");
+      const value = hexValue();
+      punct(0x7d);
+      nodes.set(k, { place, value });
+    });
+    punct(0x2c);
+    field("functions");
+    const functions = new Map<string, Map<string, bigint>>();
+    members((owner) => {
+      const m = new Map<string, bigint>();
+      members((k) => m.set(k, hexValue()));
+      functions.set(owner, m);
+    });
+    punct(0x2c);
+    field("retired");
+    const retired: RetiredValue[] = [];
+    punct(0x5b);
+    ws();
+    if (b[i] === 0x5d) {
+      i++;
+    } else {
+      for (;;) {
+        punct(0x7b);
+        field("kind");
+        const kind = str();
+        if (!KINDS.has(kind)) fail();
+        punct(0x2c);
+        field("space");
+        const space = str();
+        punct(0x2c);
+        field("value");
+        const value = hexValue();
+        punct(0x2c);
+        field("was");
+        const was = str();
+        punct(0x7d);
+        retired.push({ kind: kind as RetiredValue["kind"], space, value, was });
+        ws();
+        const c = b[i++];
+        if (c === 0x5d) break;
+        if (c !== 0x2c) fail();
+      }
+    }
+    // the digest covers the compact form of everything before its own member, closed with "}"
+    ws();
+    const digestAt = i;
+    punct(0x2c);
+    field("digest");
+    const digest = str();
+    punct(0x7d);
+    ws();
+    if (i !== n) fail();
+    const hash = createHash("sha256");
+    hashCompact(hash, b, digestAt);
+    if (digest !== "sha256:" + hash.update("}").digest("hex")) return undefined;
+    return { plan, layout, groups, nodes, functions, retired };
+  } catch (e) {
+    if (e === NOT) return undefined;
+    if (e instanceof SyntaxError) return undefined;
+    throw e;
+  }
+}
