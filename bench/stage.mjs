@@ -48,7 +48,7 @@ function loadPlan() {
   return r.plan;
 }
 function loadLockFor(plan) {
-  const r = parseLock(readFileSync(lockFile, "utf8"), lockFile, plan.name);
+  const r = parseLock(readFileSync(lockFile), lockFile, plan.name);
   if (!r.ok) throw new Error("lock did not load");
   return r.lock;
 }
@@ -109,7 +109,8 @@ switch (stage) {
   }
   case "lock": {
     const plan = loadPlan();
-    const t = readFileSync(lockFile, "utf8");
+    // the CLI reads the lock as bytes (parseLock takes text or bytes)
+    const t = readFileSync(lockFile);
     const { ms, last } = timed(() => parseLock(t, lockFile, plan.name));
     out = { ms, sids: sidCount(allocated(plan, last.lock)) };
     break;
