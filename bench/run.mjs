@@ -271,9 +271,12 @@ function renderDoc(s, before) {
   L.push("Times are wall clock with the CPU time (user + system, all threads) beside it: on a shared machine the wall");
   L.push("time also counts waiting for a core, the CPU time much less so.", "");
   if (before) {
-    L.push(`"Before" numbers come from \`bench/baseline.json\`: the same benchmark run on the same machine with the code as it`);
+    const same = before.machine.cpu === s.machine.cpu;
+    L.push(`"Before" numbers come from \`bench/baseline.json\`: the same benchmark run ${same ? "on the same machine" : `on another machine (${before.machine.cpu}, ${before.machine.cores} cores)`} with the code as it`);
     L.push(`stood before the fast paths (median of ${before.runs} run${before.runs === 1 ? "" : "s"}; load average ${before.machine.load ?? "unknown"} at its start, so its wall times`);
-    L.push("carry more waiting than the CPU times do). Rules changed between the two runs as well.", "");
+    L.push("carry more waiting than the CPU times do). Rules changed between the two runs as well.");
+    if (!same) L.push("The two machines differ in speed: compare the ratios measured within one run (the Python sweep below), not the \"before\" times with these.");
+    L.push("");
   }
   L.push("## Machine", "");
   L.push(`- CPU: ${s.machine.cpu}, ${s.machine.cores} cores`, `- memory: ${s.machine.memoryGb} GB`, `- Node.js ${s.machine.node}; ${s.machine.python}`);
