@@ -122,6 +122,11 @@ export function readLockFast(bytes: Uint8Array): Lock | undefined {
     if (str() !== name) fail();
     punct(0x3a);
   };
+  /** `, "name":` — the next member of an object whose keys come in a fixed order. */
+  const nextField = (name: string): void => {
+    punct(0x2c);
+    field(name);
+  };
   /** `{ "k": value, ... }`, calling `member` for each key with the cursor at its value. */
   const members = (member: (key: string) => void) => {
     punct(0x7b);
@@ -145,39 +150,32 @@ export function readLockFast(bytes: Uint8Array): Lock | undefined {
     punct(0x7b);
     field("schema");
     if (str() !== LOCK_SCHEMA_ID) return undefined;
-    punct(0x2c);
-    field("plan");
+    nextField("plan");
     const plan = str();
-    punct(0x2c);
-    field("layout");
+    nextField("layout");
     const layout = str();
-    punct(0x2c);
-    field("groups");
+    nextField("groups");
     const groups = new Map<string, bigint>();
     members((k) => groups.set(k, hexValue()));
-    punct(0x2c);
-    field("nodes");
+    nextField("nodes");
     const nodes = new Map<string, { place: string; value: bigint }>();
     members((k) => {
       punct(0x7b);
       field("place");
       const place = str();
-      punct(0x2c);
-      field("value");
+      nextField("value");
       const value = hexValue();
       punct(0x7d);
       nodes.set(k, { place, value });
     });
-    punct(0x2c);
-    field("functions");
+    nextField("functions");
     const functions = new Map<string, Map<string, bigint>>();
     members((owner) => {
       const m = new Map<string, bigint>();
       members((k) => m.set(k, hexValue()));
       functions.set(owner, m);
     });
-    punct(0x2c);
-    field("retired");
+    nextField("retired");
     const retired: RetiredValue[] = [];
     punct(0x5b);
     ws();
@@ -189,14 +187,11 @@ export function readLockFast(bytes: Uint8Array): Lock | undefined {
         field("kind");
         const kind = str();
         if (!KINDS.has(kind)) fail();
-        punct(0x2c);
-        field("space");
+        nextField("space");
         const space = str();
-        punct(0x2c);
-        field("value");
+        nextField("value");
         const value = hexValue();
-        punct(0x2c);
-        field("was");
+        nextField("was");
         const was = str();
         punct(0x7d);
         retired.push({ kind: kind as RetiredValue["kind"], space, value, was });
@@ -209,8 +204,7 @@ export function readLockFast(bytes: Uint8Array): Lock | undefined {
     // the digest covers the compact form of everything before its own member, closed with "}"
     ws();
     const digestAt = i;
-    punct(0x2c);
-    field("digest");
+    nextField("digest");
     const digest = str();
     punct(0x7d);
     ws();
