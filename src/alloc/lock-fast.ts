@@ -13,10 +13,10 @@
  * give, in the same order (tests compare the two on random and damaged locks).
  */
 import { type Hash, createHash } from "node:crypto";
-import { LOCK_SCHEMA_ID, type Lock, type RetiredValue, smallBigInt } from "./lock.js";
+import { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock.js";
 
-class NotALock extends Error {}
-const NOT = new NotALock("not the lock layout");
+/** Thrown inside the reader when the bytes are not a lock it is sure of; caught at its end. */
+const NOT = new Error("not the lock layout");
 const fail = (): never => {
   throw NOT;
 };
@@ -107,7 +107,7 @@ export function readLockFast(bytes: Uint8Array): Lock | undefined {
       if (i >= n) fail();
       const c = b[i]!;
       if (c === QUOTE) break;
-      const d = c >= 0x30 && c <= 0x39 ? c - 0x30 : c >= 0x61 && c <= 0x66 ? c - 0x57 : -1;
+      const d = hexDigit(c);
       if (d < 0) fail();
       v = v * 16 + d;
       i++;

@@ -245,13 +245,17 @@ export function lockValue(s: unknown): bigint {
   if (typeof s !== "string" || s.length < 3 || s.charCodeAt(0) !== 0x30 || s.charCodeAt(1) !== 0x78) throw new Error(`bad value ${JSON.stringify(s)}`);
   let n = 0;
   for (let i = 2; i < s.length; i++) {
-    const c = s.charCodeAt(i);
-    const d = c >= 0x30 && c <= 0x39 ? c - 0x30 : c >= 0x61 && c <= 0x66 ? c - 0x57 : -1;
+    const d = hexDigit(s.charCodeAt(i));
     if (d < 0) throw new Error(`bad value ${JSON.stringify(s)}`);
     n = n * 16 + d;
   }
   if (s.length > 2 + 13) return BigInt(s); // beyond 2^52 a double would round; the digits were checked above
   return smallBigInt(n);
+}
+
+/** The value of a lower-case hex digit's character code (the only digits a lock holds), or -1. */
+export function hexDigit(c: number): number {
+  return c >= 0x30 && c <= 0x39 ? c - 0x30 : c >= 0x61 && c <= 0x66 ? c - 0x57 : -1;
 }
 
 /** BigInt(n) for a safe integer n >= 0, shared for the small values. */
