@@ -4,15 +4,17 @@
  * lock. Pinned values are kept; values in the lock never move unless renumbering is allowed.
  */
 import { Prefix } from "../net/prefix.js";
-import type { Addr } from "../net/uint128.js";
+import { type Addr, toWords } from "../net/uint128.js";
 import { type BehaviorName, type Flavor, codepointOf, normalizeFlavors } from "../sid/behaviors.js";
-import type { LocatorEntry, NodeTable, SidContext, SidEntry, SidStructure, SidTable } from "../sid/table.js";
+import type { PackedSidTable } from "../sid/packed.js";
+import type { LocatorEntry, SidContext, SidStructure, SidTable } from "../sid/table.js";
 import { type Diagnostic, quote } from "../plan/diagnostic.js";
 import type { Block, Layout, Level, Plan, PlanNode, PoolKind, ValueRange } from "../plan/model.js";
 import { POOL_KINDS } from "../plan/model.js";
 import { inRanges, levelCapacity, rangeSize } from "../plan/normalize.js";
 import { type Lock, type RetiredValue, emptyLock } from "./lock.js";
 import { bitOrder, nthValue } from "./order.js";
+import { type SidRow, SidRowSink, setSidWords } from "./sid-rows.js";
 
 /** One value that would change, for the renumbering refusal and for the summary. */
 export interface Move {
@@ -33,7 +35,10 @@ export interface UsageRow {
 
 export interface Allocation {
   readonly plan: Plan;
+  /** The SIDs as objects, node by node in plan order (made from `packed` on first use). */
   readonly table: SidTable;
+  /** The same SIDs in columns, as the allocator wrote them (emitters and the linter read these). */
+  readonly packed: PackedSidTable;
   readonly lock: Lock;
   readonly groupValues: ReadonlyMap<string, bigint>;
   /** node or anycast name -> hierarchical node value (without algorithm bits) */
@@ -253,11 +258,11 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   // ---- SIDs, locator by locator
   const nodeByName = new Map(plan.nodes.map((n) => [n.name, n]));
   const functionsOut = new Map<string, ReadonlyMap<string, bigint>>();
-  const tables: NodeTable[] = [];
   const poolMax = new Map<string, { used: bigint; cap: bigint; where: string }>();
   let added = 0;
 
-  const specsFor = buildSpecs(plan, nodeByName, diags);
+  const { byNode: specsFor, all: allSpecs } = buildSpecs(plan, nodeByName, diags);
+  const sink = new SidRowSink(plan.name, allSpecs, (src, algo) => lockKey(src as SidSpec, algo));
   // A service on an algorithm its node does not run would silently get no SID: refuse it.
   for (const n of plan.nodes) {
     for (const sp of specsFor.get(n.name) ?? []) {
@@ -268,9 +273,10 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   }
   if (diags.length > 0) return { ok: false, diagnostics: diags, moves };
 
-  const allocOwner = (owner: string, place: string, algos: readonly number[], anycastName: string | undefined): { locators: LocatorEntry[]; sids: SidEntry[] } => {
+  /** Allocate one owner's SIDs into rows (`keep`: rows of their own, for an anycast group shared by its members). */
+  const allocOwner = (owner: string, place: string, algos: readonly number[], anycastName: string | undefined, keep: boolean): { locators: LocatorEntry[]; rows: SidRow[] } => {
     const locators: LocatorEntry[] = [];
-    const sids: SidEntry[] = [];
+    const rows: SidRow[] = [];
     const hv = nodeValues.get(owner)!;
     const lockedFns = lock.functions.get(owner) ?? new Map<string, bigint>();
     // the owner's functions for the new lock, in SID order; when they are the locked ones to the
@@ -289,9 +295,9 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const field = nodeField(b, algo, hv);
       const locLen = L.blockBits + L.nodeBits;
       const locator = new Prefix(b.prefix.first | (field << BigInt(128 - locLen)), locLen);
-      locators.push({ prefix: locator, algorithm: algo, block: b.name, anycast: anycastName ?? "" });
-      const locFirst = locator.first;
-      const fnShift = BigInt(128 - L.blockBits - L.nodeBits - L.functionBits);
+      const locEntry: LocatorEntry = { prefix: locator, algorithm: algo, block: b.name, anycast: anycastName ?? "" };
+      locators.push(locEntry);
+      const carve: Carve = { L, locator: locEntry, first: locator.first, words: toWords(locator.first), fnShift: 128 - L.blockBits - L.nodeBits - L.functionBits };
       const firstEnd = endSpecs(plan, algo)[0]?.key;
       // Two-C-SID layouts: the first End SID is the node's global C-SID alone (no local C-SID).
       const specs = (anycastName ? endSpecs(plan, algo) : (specsFor.get(owner) ?? []).filter((s) => s.algorithm === algo || s.algorithm === undefined)).map((s) =>
@@ -455,7 +461,9 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
           outValues.push(fn);
           if (sameAsLocked && lockedValues[si] !== fn) sameAsLocked = false;
         }
-        sids.push(makeSid(L, locator, locFirst, fnShift, algo, s, fn, key));
+        const r = sink.row(keep);
+        fillRow(r, carve, algo, s, fn);
+        rows.push(r);
       }
     }
     let outFns: ReadonlyMap<string, bigint>;
@@ -471,22 +479,30 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const space = `${owner}|${key.split("|")[0]}`;
       if (!retiredNow.some((r) => r.kind === "function" && r.was === key && r.space === space)) retiredNow.push({ kind: "function", space, value: v, was: key });
     }
-    return { locators, sids };
+    return { locators, rows };
   };
 
   const anycastByName = new Map(plan.anycast.map((a) => [a.name, a]));
-  const anycastTables = new Map<string, { locators: LocatorEntry[]; sids: SidEntry[] }>();
-  for (const a of plan.anycast) anycastTables.set(a.name, allocOwner(`anycast:${a.name}`, a.place, a.algorithms, a.name));
+  const anycastTables = new Map<string, { locators: LocatorEntry[]; rows: SidRow[] }>();
+  for (const a of plan.anycast) anycastTables.set(a.name, allocOwner(`anycast:${a.name}`, a.place, a.algorithms, a.name, true));
+  // room for every SID at once: each node's specs (one per algorithm it runs unless the spec has
+  // its own) and its anycast groups' SIDs of those algorithms
+  let expected = 0;
   for (const n of plan.nodes) {
-    const { locators, sids } = allocOwner(n.name, n.place, n.algorithms, undefined);
+    for (const sp of specsFor.get(n.name) ?? []) expected += sp.algorithm === undefined ? n.algorithms.length : 1;
+    for (const an of n.anycast) for (const r of anycastTables.get(an)?.rows ?? []) if (n.algorithms.includes(r.algorithm)) expected++;
+  }
+  sink.reserve(expected);
+  for (const n of plan.nodes) {
+    const { locators, rows } = allocOwner(n.name, n.place, n.algorithms, undefined, false);
     for (const an of n.anycast) {
       const a = anycastByName.get(an);
       const t = anycastTables.get(an);
       if (!a || !t) continue;
       for (const l of t.locators) if (n.algorithms.includes(l.algorithm)) locators.push(l);
-      for (const s of t.sids) if (n.algorithms.includes(s.algorithm)) sids.push(s);
+      for (const r of t.rows) if (n.algorithms.includes(r.algorithm)) rows.push(r);
     }
-    tables.push({ node: n.name, locators: sortLocators(locators), sids: sortSids(sids) });
+    sink.writeNode(n.name, sortLocators(locators), rows);
   }
   if (diags.length > 0 || (moves.length > 0 && !allow)) return { ok: false, diagnostics: diags, moves };
 
@@ -502,12 +518,11 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     retired: newRetired,
   };
 
-  tables.sort((a, b) => (a.node < b.node ? -1 : a.node > b.node ? 1 : 0));
+  const packed = sink.finish();
   return {
     ok: true,
-    allocation: {
+    allocation: withTable(packed, {
       plan,
-      table: { plan: plan.name, nodes: tables },
       lock: newLock,
       groupValues,
       nodeValues,
@@ -516,6 +531,21 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       moves,
       retiredNow: dedupeRetired(retiredNow),
       added,
+    }),
+  };
+}
+
+/**
+ * The allocation with `packed` and a `table` made from it on first use (nodes sorted by name,
+ * each node's SIDs by address, as the sink wrote them). Made out here, not inside allocate: a
+ * getter there would keep every local of the run alive as long as the allocation.
+ */
+function withTable(packed: PackedSidTable, rest: Omit<Allocation, "table" | "packed">): Allocation {
+  return {
+    ...rest,
+    packed,
+    get table(): SidTable {
+      return packed.toTable();
     },
   };
 }
@@ -689,6 +719,8 @@ interface SidSpec {
   lockKeys?: string[];
   /** shapeOf's answer for the last layout it was asked about. */
   shapeCache?: { readonly layout: Layout; readonly shape: SidShape };
+  /** The spec's place in buildSpecs's list of every spec (the sink's source id). */
+  rowId?: number;
 }
 
 /** The flavour list of the service SIDs, shared (flavour lists are never changed once made). */
@@ -709,16 +741,23 @@ function endSpecs(plan: Plan, _algo: number): readonly SidSpec[] {
     noFunction: false,
     context: {},
     at: ["end-sids", i],
+    rowId: i,
   }));
   endSpecCache.set(plan, specs);
   return specs;
 }
 
-function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Diagnostic[]): Map<string, SidSpec[]> {
+/** Each node's specs, and every spec by its rowId (the End specs first, with ids 0..). */
+function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Diagnostic[]): { byNode: Map<string, SidSpec[]>; all: SidSpec[] } {
   const out = new Map<string, SidSpec[]>();
+  const all: SidSpec[] = [...endSpecs(plan, 0)];
   // a spec may be shared by several nodes (a VRF's PEs); its lock key is the same for all of them
   const add = (node: string, s: SidSpec) => {
     if (s.algorithm !== undefined) s.lockKey ??= `${s.algorithm}|${s.key}`;
+    if (s.rowId === undefined) {
+      s.rowId = all.length;
+      all.push(s);
+    }
     const list = out.get(node);
     if (list) list.push(s);
     else out.set(node, [s]);
@@ -801,7 +840,7 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     const spec: SidSpec = { key: `End.T|${t.name}`, behavior: "End.T", flavors: t.flavors, pool: "table", algorithm: 0, pinned: undefined, noFunction: false, context: { table: t.table !== undefined ? `${t.name}(${t.table})` : t.name }, at: ["tables", i] };
     for (const n of t.nodes) add(n, spec);
   });
-  return out;
+  return { byNode: out, all };
 }
 
 const disjointCache = new WeakMap<Record<PoolKind, ValueRange[]>, boolean>();
@@ -886,6 +925,7 @@ export function flavorsIn(L: Layout, behavior: BehaviorName, own: readonly Flavo
 
 /** What every SID of one behaviour, flavour list and layout shares: flavours, codepoint, structure. */
 interface SidShape {
+  readonly behavior: BehaviorName;
   readonly flavors: Flavor[];
   readonly codepoint: number | undefined;
   readonly structure: SidStructure;
@@ -916,36 +956,35 @@ function shapeByKey(L: Layout, s: SidSpec): SidShape {
     let argument: number;
     if (compressed) argument = 128 - used; // RFC 9800 §8: the rest of the address is the argument
     else argument = s.behavior === "End.DT2M" ? L.argumentBits : 0; // RFC 8986 §4.12: only End.DT2M takes one
-    shape = { flavors, codepoint: codepointOf(s.behavior, flavors), structure: { block: L.blockBits, node: L.nodeBits, function: fnBits, argument } };
+    shape = { behavior: s.behavior, flavors, codepoint: codepointOf(s.behavior, flavors), structure: { block: L.blockBits, node: L.nodeBits, function: fnBits, argument } };
     byKey.set(k, shape);
   }
   return shape;
 }
 
-/** `locFirst` is `locator.first`, computed once per locator by the caller. */
-function makeSid(L: Layout, locator: Prefix, locFirst: Addr, fnShift: bigint, algo: number, s: SidSpec, fn: bigint, key: string): SidEntry {
-  const shape = shapeOf(L, s);
-  const sid: Addr = s.noFunction ? locFirst : locFirst | (fn << fnShift);
-  return {
-    sid,
-    behavior: s.behavior,
-    flavors: shape.flavors,
-    codepoint: shape.codepoint,
-    algorithm: algo,
-    locator,
-    function: fn,
-    structure: shape.structure,
-    context: s.context,
-    key,
-  };
+/** What the SIDs carved from one locator share: its layout, entry, first address (as a bigint and as words) and the function's shift. */
+interface Carve {
+  readonly L: Layout;
+  readonly locator: LocatorEntry;
+  readonly first: Addr;
+  readonly words: readonly [number, number, number, number];
+  /** Bits below the function field. */
+  readonly fnShift: number;
+}
+
+
+/** Fill `r` with one SID: the locator's words with the function value placed below the node field (none for a SID without a function). */
+function fillRow(r: SidRow, c: Carve, algo: number, s: SidSpec, fn: bigint): void {
+  r.algorithm = algo;
+  r.shape = shapeOf(c.L, s);
+  r.fn = fn;
+  r.source = s;
+  r.locator = c.locator;
+  setSidWords(r, c.words, c.first, c.fnShift, s.noFunction ? 0n : fn);
 }
 
 function sortLocators(ls: LocatorEntry[]): LocatorEntry[] {
   return ls.sort((a, b) => a.algorithm - b.algorithm || (a.prefix.first < b.prefix.first ? -1 : a.prefix.first > b.prefix.first ? 1 : 0) || a.prefix.len - b.prefix.len);
-}
-
-function sortSids(ss: SidEntry[]): SidEntry[] {
-  return ss.sort((a, b) => (a.sid < b.sid ? -1 : a.sid > b.sid ? 1 : 0) || a.algorithm - b.algorithm || (a.behavior < b.behavior ? -1 : a.behavior > b.behavior ? 1 : 0));
 }
 
 function levelUsage(plan: Plan, groups: ReadonlyMap<string, bigint>, leaves: ReadonlyMap<string, { place: string; value: bigint }>): UsageRow[] {

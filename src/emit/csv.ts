@@ -4,6 +4,7 @@
  */
 import type { Prefix } from "../net/prefix.js";
 import { formatAddr, formatWordsInto } from "../net/text.js";
+import type { PackedSidTable } from "../sid/packed.js";
 import { type NodeTable, type SidContext, type SidEntry, type SidTable, formatContext } from "../sid/table.js";
 import { CAUTION } from "./caution.js";
 import { csvCell } from "./names.js";
@@ -237,7 +238,12 @@ const HEX_DIGITS = Uint8Array.from("0123456789abcdef", (ch) => ch.charCodeAt(0))
 /** `0x` and f (0..2^32-1) in lower-case hex at `p` (room was made); -1 for other values. */
 function functionInto(buf: Uint8Array, p: number, f: bigint): number {
   if (f < 0n || f > 0xffffffffn) return -1; // "0x" + f.toString(16) instead
-  let n = Number(f);
+  return hexInto(buf, p, Number(f));
+}
+
+/** `0x` and n in lower-case hex at `p` (room was made) for a whole number 0..2^32-1; -1 for any other number. */
+function hexInto(buf: Uint8Array, p: number, n: number): number {
+  if (n >>> 0 !== n) return -1;
   buf[p++] = 0x30;
   buf[p++] = 0x78;
   let end = p + 1;
@@ -501,6 +507,123 @@ function writeRows(out: ByteOut, nodeBytes: Uint8Array, sids: readonly SidEntry[
   return i;
 }
 
+/** rowsByNode and PackedCells of the tables csvPackedChunks has written. */
+const packedPrep = new WeakMap<PackedSidTable, { readonly rows: ReturnType<typeof rowsByNode>; readonly cells: PackedCells }>();
+
+/**
+ * Rows of a packed table grouped by node, each node's in table order: rows `order[start[id]] ..
+ * order[start[id + 1] - 1]`. `order` is left out when the rows already come node by node in id
+ * order (an allocation's): the positions are then the rows.
+ */
+function rowsByNode(t: PackedSidTable): { readonly order: Int32Array | undefined; readonly start: Int32Array } {
+  const nodes = t.nodeNames.length;
+  const start = new Int32Array(nodes + 1);
+  const node = t.node;
+  let grouped = true;
+  for (let i = 0; i < t.count; i++) {
+    const id = node[i]!;
+    start[id + 1]!++;
+    if (i > 0 && id < node[i - 1]!) grouped = false;
+  }
+  for (let id = 0; id < nodes; id++) start[id + 1]! += start[id]!;
+  if (grouped) return { order: undefined, start };
+  const at = start.slice(0, nodes);
+  const order = new Int32Array(t.count);
+  for (let i = 0; i < t.count; i++) order[at[t.node[i]!]!++] = i;
+  return { order, start };
+}
+
+/** The cells of a packed table that repeat, encoded once per id (see csvPackedChunks). */
+class PackedCells {
+  readonly behaviors: readonly Uint8Array[];
+  readonly flavors: readonly Uint8Array[];
+  /** Structure cells with the comma after each: `block,node,function,argument,`. */
+  readonly structures: readonly Uint8Array[];
+  private readonly locators: (Uint8Array | undefined)[] = [];
+  private readonly nodes: (Uint8Array | undefined)[] = [];
+
+  constructor(private readonly t: PackedSidTable) {
+    this.behaviors = t.behaviors.map(cellBytes);
+    this.flavors = t.flavorSets.map((f) => (f.length > 0 ? cellBytes(f.join("+")) : NO_BYTES));
+    this.structures = t.structures.map((st) => utf8Bytes([st.block, st.node, st.function, st.argument].map((n) => csvCell(String(n)) + ",").join("")));
+  }
+
+  locator(id: number): Uint8Array {
+    if (id < 0) return NO_BYTES;
+    let b = this.locators[id];
+    if (b === undefined) this.locators[id] = b = cellBytes(this.t.prefixes[this.t.locPrefix[id]!]!.format());
+    return b;
+  }
+
+  node(id: number): Uint8Array {
+    let b = this.nodes[id];
+    if (b === undefined) this.nodes[id] = b = cellBytes(this.t.nodeNames[id]!);
+    return b;
+  }
+}
+/** The structure cells of a SID without a structure: four commas. */
+const NO_STRUCTURE = utf8Bytes(",,,,");
+
+/**
+ * writeRows for rows `order[from] .. order[end - 1]` (rows from .. end - 1 without an order) of a packed table (one node's, `nodeBytes`
+ * its cell): the same cells, read from the columns. Returns the position in `order` to go on from.
+ */
+function writePackedRows(out: ByteOut, nodeBytes: Uint8Array, t: PackedSidTable, order: Int32Array | undefined, from: number, end: number, stop: number, cells: PackedCells, orders: KeyOrders): number {
+  const { w0, w1, w2, w3, locator, behavior, flavorSet, structure, algorithm, codepoint, fn, context } = t;
+  let buf = out.buf;
+  let p = out.pos;
+  let k = from;
+  while (k < end && p < stop) {
+    const i = order === undefined ? k : order[k]!;
+    k++;
+    const loc = cells.locator(locator[i]!);
+    const beh = cells.behaviors[behavior[i]!]!;
+    const fl = cells.flavors[flavorSet[i]!]!;
+    const sti = structure[i]!;
+    const st = sti < 0 ? NO_STRUCTURE : cells.structures[sti]!;
+    const margin = ROW_FIXED + nodeBytes.length + loc.length + beh.length + fl.length + st.length;
+    if (p + margin + ROW_SPARE > buf.length) out.buf = buf = room(buf, p, margin + ROW_SPARE);
+    p = bytesInto(buf, p, nodeBytes);
+    buf[p++] = 0x2c;
+    p = numInto(out, buf, p, algorithm[i]!, margin);
+    buf = out.buf;
+    buf[p++] = 0x2c;
+    p = bytesInto(buf, p, loc);
+    buf[p++] = 0x2c;
+    p = formatWordsInto(buf, p, w0[i]!, w1[i]!, w2[i]!, w3[i]!);
+    buf[p++] = 0x2c;
+    p = bytesInto(buf, p, beh);
+    buf[p++] = 0x2c;
+    p = bytesInto(buf, p, fl);
+    buf[p++] = 0x2c;
+    const cp = codepoint[i]!;
+    if (cp === cp) {
+      p = numInto(out, buf, p, cp, margin);
+      buf = out.buf;
+    }
+    buf[p++] = 0x2c;
+    let q = hexInto(buf, p, fn[i]!);
+    if (q < 0) {
+      q = textInto(out, buf, p, "0x" + t.functionAt(i).toString(16), margin);
+      buf = out.buf;
+    }
+    p = q;
+    buf[p++] = 0x2c;
+    p = bytesInto(buf, p, st);
+    const c = t.contextOf(context[i]!);
+    q = contextInto(buf, p, c, orders);
+    if (q < 0) {
+      q = textInto(out, buf, p, csvCell(formatContext(c)), 2);
+      buf = out.buf;
+    }
+    p = q;
+    buf[p++] = 0x0d;
+    buf[p++] = 0x0a;
+  }
+  out.pos = p;
+  return k;
+}
+
 /**
  * Exactly the bytes of `Buffer.from(csvChunks(plan, nodes).join(""), "utf8")`, written as ASCII
  * straight into a reused buffer and yielded in chunks of `chunkBytes` bytes (the last one may be
@@ -515,16 +638,52 @@ function writeRows(out: ByteOut, nodeBytes: Uint8Array, sids: readonly SidEntry[
  * or that is not ASCII, goes through csvCell and UTF-8 encoding.
  */
 export function* csvByteChunks(plan: string, nodes: readonly NodeTable[], chunkBytes = 1 << 20): Generator<Uint8Array> {
+  const cache = new CellCache();
+  let last: NodeTable | undefined;
+  let nodeBytes = NO_BYTES;
+  yield* chunked(plan, chunkBytes, nodes, (out, n, from, stop) => {
+    if (n !== last) nodeBytes = cellBytes((last = n).node);
+    const next = writeRows(out, nodeBytes, n.sids, from, stop, cache);
+    return next >= n.sids.length ? -1 : next;
+  });
+}
+
+/**
+ * The bytes of csvByteChunks for the given nodes (ids into `t.nodeNames`) of a packed table,
+ * written from its columns: no SidEntry is made. Each node's rows come in the table's order (an
+ * allocation's are sorted already). Cells that repeat are encoded once per id: behaviour,
+ * flavour list, structure, locator. Tests check it against csvByteChunks over `t.toTable()`.
+ */
+export function* csvPackedChunks(t: PackedSidTable, nodeIds: readonly number[], chunkBytes = 1 << 20): Generator<Uint8Array> {
+  // made once per table: --per-node asks for every node in turn
+  let made = packedPrep.get(t);
+  if (made === undefined) packedPrep.set(t, (made = { rows: rowsByNode(t), cells: new PackedCells(t) }));
+  const { rows, cells } = made;
+  const orders = new KeyOrders();
+  yield* chunked(t.plan, chunkBytes, nodeIds, (out, id, from, stop) => {
+    const first = rows.start[id]!;
+    const end = rows.start[id + 1]!;
+    const next = writePackedRows(out, cells.node(id), t, rows.order, first + from, end, stop, cells, orders);
+    return next >= end ? -1 : next - first;
+  });
+}
+
+/**
+ * The banner and header, then each unit's rows as `write` puts them in the buffer, cut into
+ * chunks of `chunkBytes` bytes (the last may be shorter; rows run across chunk boundaries). `write`
+ * writes the unit's rows from `from` on until the buffer holds `stop` bytes or more and returns
+ * the row to go on from, or -1 when the unit is done. Each chunk is a fresh copy that is never
+ * touched again, so a caller may keep or collect them.
+ */
+function* chunked<U>(plan: string, chunkBytes: number, units: readonly U[], write: (out: ByteOut, unit: U, from: number, stop: number) => number): Generator<Uint8Array> {
   if (!Number.isSafeInteger(chunkBytes) || chunkBytes < 1) throw new RangeError(`chunkBytes must be a whole number of at least 1, got ${chunkBytes}`);
   // small at first (a table of one node, as --per-node writes, is often a few kB); grows by
   // doubling to about a chunk
   const out: ByteOut = { buf: new Uint8Array(Math.min(chunkBytes + 4096, 1 << 14)), pos: 0 };
   out.pos = textInto(out, out.buf, 0, csvBanner(plan) + "\r\n" + CSV_HEADER.join(",") + "\r\n", 0);
-  const cache = new CellCache();
-  for (const n of nodes) {
-    const nodeBytes = cellBytes(n.node);
-    for (let i = 0; i < n.sids.length; ) {
-      i = writeRows(out, nodeBytes, n.sids, i, chunkBytes, cache);
+  for (const u of units) {
+    for (let i = 0; i >= 0; ) {
+      i = write(out, u, i, chunkBytes);
       if (out.pos >= chunkBytes) {
         // cut off every whole chunk; the rest moves to the front
         let at = 0;

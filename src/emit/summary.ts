@@ -15,24 +15,40 @@ function table(head: string[]): InstanceType<typeof Table> {
 export function allocationSummary(a: Allocation): string {
   const out: string[] = [];
   const blocks = table(["block", "prefix", "algorithms", "nodes", "locators", "SIDs"]);
-  for (const b of a.plan.blocks) {
-    const nodes = new Set<string>();
-    let locators = 0;
-    let sids = 0;
-    for (const n of a.table.nodes) {
-      const ls = n.locators.filter((l) => l.block === b.name);
-      if (ls.length > 0) nodes.add(n.node);
-      locators += ls.filter((l) => l.anycast === "").length;
-      sids += n.sids.filter((s) => ls.some((l) => s.locator?.equals(l.prefix))).length;
-    }
-    blocks.push([b.name, b.prefix.format(), b.algorithms.join(", "), String(nodes.size), String(locators), String(sids)]);
+  // from the allocation's columns: each locator's block, then one pass over the SIDs
+  const p = a.packed;
+  const blockIndex = new Map(a.plan.blocks.map((b, k) => [b.name, k]));
+  const nodesIn = a.plan.blocks.map(() => new Set<number>());
+  const locatorsIn = a.plan.blocks.map(() => 0);
+  const sidsIn = a.plan.blocks.map(() => 0);
+  const blockOf = new Int32Array(p.locatorCount).fill(-1);
+  for (let id = 0; id < p.locatorCount; id++) {
+    if (p.unlisted.has(id)) continue;
+    const l = p.locatorEntry(id);
+    const k = blockIndex.get(l.block);
+    if (k === undefined) continue;
+    blockOf[id] = k;
+    nodesIn[k]!.add(p.locNode[id]!);
+    if (l.anycast === "") locatorsIn[k]!++;
   }
+  // behaviour and flavour set of each SID, counted by their ids
+  const byShape = new Map<number, number>();
+  const flavorSets = p.flavorSets.length;
+  for (let i = 0; i < p.count; i++) {
+    const loc = p.locator[i]!;
+    if (loc >= 0 && blockOf[loc]! >= 0) sidsIn[blockOf[loc]!]!++;
+    const shape = p.behavior[i]! * flavorSets + p.flavorSet[i]!;
+    byShape.set(shape, (byShape.get(shape) ?? 0) + 1);
+  }
+  a.plan.blocks.forEach((b, k) => blocks.push([b.name, b.prefix.format(), b.algorithms.join(", "), String(nodesIn[k]!.size), String(locatorsIn[k]), String(sidsIn[k])]));
   out.push(blocks.toString());
 
   const counts = new Map<string, number>();
-  for (const n of a.table.nodes) for (const s of n.sids) {
-    const k = s.flavors.length ? `${s.behavior} (${s.flavors.join("+")})` : s.behavior;
-    counts.set(k, (counts.get(k) ?? 0) + 1);
+  for (const [shape, n] of byShape) {
+    const behavior = p.behaviors[Math.floor(shape / flavorSets)]!;
+    const flavors = p.flavorSets[shape % flavorSets]!;
+    const k = flavors.length ? `${behavior} (${flavors.join("+")})` : behavior;
+    counts.set(k, (counts.get(k) ?? 0) + n);
   }
   const beh = table(["behavior", "SIDs"]);
   for (const k of [...counts.keys()].sort()) beh.push([k, String(counts.get(k))]);

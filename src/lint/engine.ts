@@ -4,8 +4,9 @@
  *
  * The views are made lazily, when the first rule asks for them: `ctx.packed` (the SID table in
  * columns with its sorted orders) and the object views `ctx.sids` / `ctx.locators`, which are
- * materialised from the packed orders when the input came packed (a CSV table), and sorted by
- * `prepare` when it came as objects (an allocation). A rule that touches none costs nothing.
+ * materialised from the packed orders when the input came packed (a CSV table, an allocation), and
+ * sorted by `prepare` when it came as objects (a table built by hand). A rule that touches none
+ * costs nothing.
  */
 import type { Plan, Severity } from "../plan/model.js";
 import type { SourceLocation } from "../plan/diagnostic.js";
@@ -35,7 +36,7 @@ declare module "./types.js" {
   }
 }
 
-/** Lint input for a table read by readCsvPacked; `table` (objects) is only made if a rule asks for it. */
+/** Lint input for a table read by readCsvPacked; `table` (objects) is only made if a rule asks for it (inputFromAllocation does the same for an allocation). */
 export function inputFromPacked(read: PackedReadResult, file: string, today: string, plan?: Plan): LintInput {
   const packed = read.table;
   return {
@@ -136,7 +137,7 @@ export class LintViews {
   }
 
   /**
-   * An input that came as objects (an allocation) gets its object views from `prepare`: its
+   * An input that came as objects (a table built by hand) gets its object views from `prepare`: its
    * tables are nearly sorted already, which a comparator sort exploits, and packing would cost
    * more than it saves. The packed view is then only made when a rule asks for it.
    */

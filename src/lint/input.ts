@@ -14,7 +14,19 @@ export function isoDay(d: Date): string {
 
 /** Lint a plan: its allocation is the table, the plan is the intent. */
 export function inputFromAllocation(a: Allocation, today: string): LintInput {
-  return { table: a.table, file: a.plan.file, plan: a.plan, allocation: a, fromTable: false, rowProblems: [], today };
+  // the rules read the allocation's columns; its SID objects are only made if a rule asks for them
+  return {
+    get table() {
+      return a.table;
+    },
+    packed: a.packed,
+    file: a.plan.file,
+    plan: a.plan,
+    allocation: a,
+    fromTable: false,
+    rowProblems: [],
+    today,
+  };
 }
 
 /** Lint a SID table from a file; `plan` adds declared summaries, infrastructure, anycast groups and pools. */

@@ -4,7 +4,7 @@
  */
 import { Prefix, parsePrefix } from "../net/prefix.js";
 import { rangesOverlapping } from "../net/special.js";
-import { type Flavor, parseFlavor } from "../sid/behaviors.js";
+import { type Flavor, normalizeFlavors, parseFlavor } from "../sid/behaviors.js";
 import { type Diagnostic, quote } from "./diagnostic.js";
 import type {
   AnycastGroup,
@@ -352,6 +352,16 @@ export function normalizePlan(raw: Raw, file: string, locate: Locator): { ok: tr
     (t.nodes as string[]).forEach((n, j) => needNode(n, ["tables", i, "nodes", j], "table node"));
     return { name: t.name, table: t.table, nodes: t.nodes, flavors: flav(t.flavors) };
   });
+  // Each End SID is known by its flavour set (order does not count): two entries with the same
+  // set would be one SID listed twice, and the lock would then hold one value for two SIDs.
+  const endSids = ((raw["end-sids"] ?? [{ flavors: [] }]) as Raw[]).map((e) => flav(e.flavors));
+  const endSeen = new Map<string, number>();
+  endSids.forEach((f, i) => {
+    const k = normalizeFlavors(f).join("+");
+    const first = endSeen.get(k);
+    if (first !== undefined) err("plan/duplicate", ["end-sids", i, "flavors"], `end-sids entry ${i + 1} (${k ? quote(k) : "no flavours"}) has the flavours of entry ${first + 1}; each End SID needs a flavour set of its own`);
+    else endSeen.set(k, i);
+  });
   const infrastructure: Infrastructure[] = [];
   ((raw.infrastructure ?? []) as Raw[]).forEach((x, i) => {
     const pr = parsePrefix(x.prefix);
@@ -400,7 +410,7 @@ export function normalizePlan(raw: Raw, file: string, locate: Locator): { ok: tr
       policies,
       tables,
       infrastructure,
-      endSids: ((raw["end-sids"] ?? [{ flavors: [] }]) as Raw[]).map((e) => flav(e.flavors)),
+      endSids,
       adjacencyFlavors: flav(raw["adjacency-flavors"]),
       functionPools,
       reservedFunctions,

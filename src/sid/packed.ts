@@ -6,8 +6,9 @@
  *
  * `readCsvPacked` reads our CSV form straight from the file's bytes and gives exactly what
  * `readCsvTable` (table-read.ts, the readable reference) gives: the same SIDs, locators, problems
- * and line numbers (tests compare the two on random tables). `packTable` packs a `SidTable` that
- * already exists (an allocation). `radixSortIndex` is the index sort the linter's views use.
+ * and line numbers (tests compare the two on random tables). The allocator writes its SIDs
+ * straight into one (src/alloc/sid-rows.ts); `packTable` packs a `SidTable` that already exists
+ * (one built by hand). `radixSortIndex` is the index sort the linter's views use.
  */
 import { HEX_DIGIT, parsePrefixBytes, parseWordsBytes } from "../net/fast.js";
 import { Prefix } from "../net/prefix.js";
@@ -31,6 +32,24 @@ const SMALL_LIMIT = 1 << 16;
 const SMALL: bigint[] = [];
 
 const structKey = (s: SidStructure) => `${s.block}/${s.node}/${s.function}/${s.argument}`;
+
+/** The per-SID columns a builder fills (see PackedSidTable.adoptColumns). */
+export interface PackedColumns {
+  readonly w0: Uint32Array;
+  readonly w1: Uint32Array;
+  readonly w2: Uint32Array;
+  readonly w3: Uint32Array;
+  readonly node: Int32Array;
+  readonly locator: Int32Array;
+  readonly behavior: Int32Array;
+  readonly flavorSet: Int32Array;
+  readonly flavorMask: Uint8Array;
+  readonly codepoint: Float64Array;
+  readonly algorithm: Int32Array;
+  readonly fn: Float64Array;
+  readonly structure: Int32Array;
+  readonly context: Int32Array;
+}
 
 /**
  * A SID table in columns. Index i (0 .. count-1) is one SID, in the order of the source (rows of a
@@ -108,6 +127,11 @@ export class PackedSidTable {
   private readonly keyCtx: (string | undefined)[] = [];
   private readonly keyFlv: (string | undefined)[] = [];
   private tableCache: SidTable | undefined;
+  /**
+   * SidEntry.key of each SID when the builder gives its own (the allocator's lock keys); the keys
+   * are otherwise made from the context (see keyOf).
+   */
+  private sidKeys: ((i: number) => string) | undefined;
 
   constructor(
     readonly plan: string,
@@ -220,7 +244,7 @@ export class PackedSidTable {
       const locator = loc < 0 ? undefined : this.prefixes[this.locPrefix[loc]!];
       const fn = this.functionAt(i);
       const structure = st < 0 ? undefined : this.structures[st];
-      const key = this.keyOf(i, behavior, algorithm);
+      const key = this.sidKeys !== undefined ? this.sidKeys(i) : this.keyOf(i, behavior, algorithm);
       e =
         row > 0
           ? { sid, behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key, row }
@@ -259,6 +283,12 @@ export class PackedSidTable {
     return l;
   }
 
+  /** Node ids in the order of toTable's nodes: by name (equal names in id order). */
+  nodeIdsByName(): number[] {
+    const rank = this.nodeRank;
+    return this.nodeNames.map((_, i) => i).sort((a, b) => rank[a]! - rank[b]! || a - b);
+  }
+
   /**
    * The table as a SidTable: nodes sorted by name, each with its locators in order of first
    * appearance and its SIDs in source order. Made once.
@@ -270,8 +300,7 @@ export class PackedSidTable {
     const locs: LocatorEntry[][] = Array.from({ length: n }, () => []);
     for (let id = 0; id < this.locatorCount; id++) if (!this.unlisted.has(id)) locs[this.locNode[id]!]!.push(this.locatorEntry(id));
     for (let i = 0; i < this.count; i++) sids[this.node[i]!]!.push(this.entry(i));
-    const rank = this.nodeRank;
-    const order = this.nodeNames.map((_, i) => i).sort((a, b) => rank[a]! - rank[b]! || a - b);
+    const order = this.nodeIdsByName();
     const nodes: NodeTable[] = order.map((i) => ({ node: this.nodeNames[i]!, locators: locs[i]!, sids: sids[i]! }));
     this.tableCache = { plan: this.plan, nodes };
     return this.tableCache;
@@ -294,6 +323,22 @@ export class PackedSidTable {
       this.entries = list;
       this.entryMap = undefined;
     }
+  }
+
+  /** @internal The SIDs' keys as a builder gives them (the allocator's lock keys), made when an entry is. */
+  useKeys(keys: (i: number) => string): void {
+    this.sidKeys = keys;
+  }
+
+  /**
+   * @internal Take over columns a builder filled (SidRowSink): each is cut to `count` entries
+   * (a view, not a copy). The row column is all zeros (no SID came from a file).
+   */
+  adoptColumns(cols: PackedColumns): void {
+    const n = this.count;
+    const self = this as unknown as Record<keyof PackedColumns | "row", ArrayLike<number>>;
+    for (const k of Object.keys(cols) as (keyof PackedColumns)[]) self[k] = cols[k].subarray(0, n);
+    self.row = new Int32Array(n);
   }
 
   /** @internal */
@@ -474,7 +519,7 @@ export function maskWord(w: number, bits: number): number {
 // ------------------------------------------------------------------ packing a SidTable
 
 /**
- * Pack an existing table (e.g. an allocation). Entries and locators keep their identity:
+ * Pack an existing table (one built by hand, or the objects of an allocation). Entries and locators keep their identity:
  * `entry(i)` and `locatorEntry(id)` return the table's own objects, and `toTable()` the table.
  */
 export function packTable(t: SidTable): PackedSidTable {

@@ -11,7 +11,7 @@ import { describe, expect, it } from "vitest";
 import { stringify } from "yaml";
 import { type Allocation, allocate } from "../../src/alloc/allocate.js";
 import { type Lock, parseLock, serializeLock } from "../../src/alloc/lock.js";
-import { tableToCsv } from "../../src/emit/csv.js";
+import { csvByteChunks, csvPackedChunks, tableToCsv } from "../../src/emit/csv.js";
 import { Prefix } from "../../src/net/prefix.js";
 import { getField } from "../../src/net/uint128.js";
 import { formatDiagnostic } from "../../src/plan/diagnostic.js";
@@ -452,6 +452,36 @@ describe("allocator properties on random valid plans", () => {
         expect(violations(a)).toEqual([]);
       }),
       { seed: 1729, ...FC },
+    );
+  });
+
+  it("writes its SIDs as columns that agree with bigint arithmetic, the lock and the object writer", () => {
+    fc.assert(
+      fc.property(specArb, (s) => {
+        const a = run(load(buildModel(s)));
+        const t = a.table; // made from the columns
+        let count = 0;
+        for (const n of t.nodes) {
+          const ownerOf = new Map(n.locators.map((l) => [l.prefix, l.anycast ? `anycast:${l.anycast}` : n.node]));
+          n.sids.forEach((e, k) => {
+            count++;
+            const st = e.structure!;
+            // the address, carved with bigints: locator, then the function below block and node
+            expect(e.sid).toBe(e.locator!.first | (e.function << BigInt(128 - st.block - st.node - st.function)));
+            // the function value and key are the lock's (a SID without a function field has no entry)
+            if (st.function > 0) expect(a.lock.functions.get(ownerOf.get(e.locator!)!)?.get(e.key)).toBe(e.function);
+            // each node's SIDs by address, then algorithm, then behaviour
+            const prev = n.sids[k - 1];
+            if (prev) expect(prev.sid < e.sid || (prev.sid === e.sid && (prev.algorithm < e.algorithm || (prev.algorithm === e.algorithm && prev.behavior <= e.behavior)))).toBe(true);
+          });
+        }
+        expect(a.packed.count).toBe(count);
+        // the CSV written from the columns is the CSV written from the objects, byte for byte
+        const fromColumns = Buffer.concat([...csvPackedChunks(a.packed, a.packed.nodeIdsByName(), 997)]);
+        const fromObjects = Buffer.concat([...csvByteChunks(t.plan, t.nodes, 997)]);
+        expect(fromColumns.toString("latin1")).toBe(fromObjects.toString("latin1"));
+      }),
+      { seed: 9800, ...FC },
     );
   });
 

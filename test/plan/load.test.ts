@@ -311,6 +311,15 @@ describe("references between objects", () => {
     expect(d.code).toBe("plan/reference");
   });
 
+  it("refuses two end-sids entries with the same flavour set, in any order, at the second", () => {
+    // one SID listed twice: the lock could hold only one value for both
+    const text = base({ "end-sids": [{ flavors: [] }, { flavors: ["PSP", "USD"] }, { flavors: ["USD", "PSP"] }] });
+    const d = only(diagnosticsOf(text), "end-sids.2.flavors");
+    expect(d.code).toBe("plan/duplicate");
+    expect(d.message).toContain('"PSP+USD"');
+    expect(loadPlanText(base({ "end-sids": [{ flavors: [] }, { flavors: ["PSP"] }, { flavors: ["PSP", "USD"] }] }), "ok.yaml").ok).toBe(true);
+  });
+
   it("refuses a duplicate node name at the second occurrence", () => {
     const d = only(diagnosticsOf(base({ nodes: [{ name: "r1", place: "north/quay" }, { name: "r1", place: "south/dock" }] })), "nodes.1.name");
     expect(d.code).toBe("plan/duplicate");

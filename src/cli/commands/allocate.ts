@@ -25,8 +25,8 @@ function allocateHolding(plan: Plan, lockFile: string, flags: AllocateFlags, io:
   const { lock, bytes } = loadLock(plan, lockFile);
   const a = allocateOrFail(plan, lock, { allowRenumber: flags.allowRenumber === true });
   const newText = serializeLock(a.lock);
-  const sids = a.table.nodes.reduce((s, n) => s + n.sids.length, 0);
-  io.out(`plan ${plan.name}: ${a.table.nodes.length} nodes, ${sids} SIDs (${a.added} new), ${a.retiredNow.length} values retired\n`);
+  const sids = a.packed.count;
+  io.out(`plan ${plan.name}: ${a.packed.nodeNames.length} nodes, ${sids} SIDs (${a.added} new), ${a.retiredNow.length} values retired\n`);
   for (const m of a.moves) io.out(`renumbered ${m.what}: ${m.from} -> ${m.to} (${m.reason})\n`);
   io.out(allocationSummary(a));
   if (flags.dryRun) {

@@ -1,6 +1,6 @@
 /** `sidcarve emit PLAN --format csv|json [--out DIR] [--per-node]`: write the per-router SID tables. */
 import { join } from "node:path";
-import { csvByteChunks, csvChunks } from "../../emit/csv.js";
+import { csvChunks, csvPackedChunks } from "../../emit/csv.js";
 import { jsonChunks } from "../../emit/json.js";
 import { safeFileName } from "../../emit/names.js";
 import type { Io } from "../context.js";
@@ -19,25 +19,30 @@ export function runEmit(planFile: string, flags: EmitFlags, io: Io): number {
   if (flags.format !== "csv" && flags.format !== "json") throw new UsageError(`--format ${JSON.stringify(flags.format)} is not allowed; use csv or json`);
   const plan = loadPlanFile(planFile);
   const a = lockedAllocation(plan, lockPathFor(planFile, flags.lock));
-  const t = a.table;
-  const chunks = (nodes: typeof t.nodes) => (flags.format === "csv" ? csvChunks(t.plan, nodes) : jsonChunks(t, nodes));
-  // files get CSV as bytes written straight into buffers (the same bytes as the strings' UTF-8)
-  const fileChunks = (nodes: typeof t.nodes) => (flags.format === "csv" ? csvByteChunks(t.plan, nodes) : jsonChunks(t, nodes));
+  const packed = a.packed;
+  // CSV files are written from the allocation's columns (no SID objects); JSON and standard output from the objects
+  const ids = packed.nodeIdsByName();
+  const names = ids.map((id) => packed.nodeNames[id]!);
+  const csv = flags.format === "csv";
+  // nodes by their place in `ids`, which is also the order of the table's nodes (see PackedSidTable.toTable)
+  const fileChunks = (at: readonly number[]) => (csv ? csvPackedChunks(packed, at.map((k) => ids[k]!)) : jsonChunks(a.table, at.map((k) => a.table.nodes[k]!)));
   const ext = flags.format;
   if (!flags.out) {
     if (flags.perNode) throw new UsageError("--per-node needs --out DIR (one file per node)");
-    for (const c of chunks(t.nodes)) io.out(c);
+    // standard output takes text, a node at a time
+    const t = a.table;
+    for (const c of csv ? csvChunks(t.plan, t.nodes) : jsonChunks(t, t.nodes)) io.out(c);
     return 0;
   }
   if (flags.perNode) {
-    const files = t.nodes.map((n) => join(flags.out!, `${safeFileName(n.node)}.${ext}`));
+    const files = names.map((n) => join(flags.out!, `${safeFileName(n)}.${ext}`));
     // check every target first, so a refusal never leaves half a set written
     checkWritable(files, { force: flags.force });
-    t.nodes.forEach((n, i) => writeAtomic(files[i]!, fileChunks([n]), { force: flags.force }));
-    io.out(`${t.nodes.length} ${ext.toUpperCase()} tables written to ${flags.out}/\n`);
+    files.forEach((f, k) => writeAtomic(f, fileChunks([k]), { force: flags.force }));
+    io.out(`${ids.length} ${ext.toUpperCase()} tables written to ${flags.out}/\n`);
   } else {
     const file = join(flags.out, `${safeFileName(plan.name)}.sids.${ext}`);
-    writeAtomic(file, fileChunks(t.nodes), { force: flags.force });
+    writeAtomic(file, fileChunks(ids.map((_, k) => k)), { force: flags.force });
     io.out(`SID table written to ${file}\n`);
   }
   return 0;

@@ -1,0 +1,95 @@
+/**
+ * The allocator's SID sink: placing a function value into the four address words without a bigint
+ * (setSidWords) against the bigint expression it stands for, and writing nodes into columns.
+ */
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import { type RowSource, SidRowSink, setSidWords } from "../../src/alloc/sid-rows.js";
+import { Prefix } from "../../src/net/prefix.js";
+import { ALL_ONES, toWords } from "../../src/net/uint128.js";
+
+const words = (w: { w0: number; w1: number; w2: number; w3: number }) => [w.w0, w.w1, w.w2, w.w3];
+
+describe("setSidWords", () => {
+  it("gives toWords(first | fn << shift) for every shift and for values below and above 2^32", () => {
+    // a field of `bits` bits at `shift` from the bottom, the address zero there (as a locator's first address is)
+    const case_ = fc
+      .tuple(fc.integer({ min: 0, max: 127 }), fc.integer({ min: 1, max: 64 }), fc.bigInt({ min: 0n, max: ALL_ONES }), fc.bigInt({ min: 0n, max: (1n << 64n) - 1n }))
+      .map(([shift, width, addr, raw]) => {
+        const bits = Math.min(width, 128 - shift);
+        const field = ((1n << BigInt(bits)) - 1n) << BigInt(shift);
+        return { shift, first: addr & ~field & ALL_ONES, fn: raw & ((1n << BigInt(bits)) - 1n) };
+      });
+    fc.assert(
+      fc.property(case_, ({ shift, first, fn }) => {
+        const r = { w0: -1, w1: -1, w2: -1, w3: -1 };
+        setSidWords(r, toWords(first), first, shift, fn);
+        expect(words(r)).toEqual(toWords(first | (fn << BigInt(shift))));
+      }),
+      { seed: 8986, numRuns: 3000 },
+    );
+  });
+
+  it("handles the edges of each word: the lowest and highest bit, values that straddle two words", () => {
+    const first = 0x5f00_0000_0000_0000_0000_0000_0000_0000n;
+    for (const [shift, fn] of [
+      [0, 1n],
+      [0, 0xffffffffn],
+      [16, 0xffffffffn], // straddles words 3 and 2
+      [31, 1n],
+      [32, 0xabcdn],
+      [48, 0xffffn], // straddles words 2 and 1
+      [80, 0xffffn], // straddles words 1 and 0
+      [96, 0xffn],
+      [100, 0xfffn],
+      [64, 0x1_0000_0000n], // 2^32 and above take the bigint path
+      [0, (1n << 64n) - 1n],
+    ] as const) {
+      const r = { w0: 0, w1: 0, w2: 0, w3: 0 };
+      setSidWords(r, toWords(first), first, shift, fn);
+      expect(words(r), `shift ${shift} fn ${fn.toString(16)}`).toEqual(toWords(first | (fn << BigInt(shift))));
+    }
+  });
+});
+
+describe("SidRowSink", () => {
+  it("sorts each node's rows by address, algorithm and behaviour, and gives entries with the sources' contexts and keys", () => {
+    const sources: RowSource[] = [
+      { context: { vrf: "blue" }, rowId: 0 },
+      { context: { neighbor: "fell-p2" }, rowId: 1 },
+    ];
+    const sink = new SidRowSink("demo", sources, (src, algo) => `${algo}|${src.rowId}`);
+    const loc = { prefix: new Prefix(0x5f00_0000_0001n << 80n, 48), algorithm: 0, block: "b", anycast: "" };
+    const shapeA = { behavior: "End.X", flavors: ["PSP"], codepoint: 53, structure: { block: 32, node: 16, function: 16, argument: 0 } };
+    const shapeB = { behavior: "End.DT4", flavors: [], codepoint: 19, structure: { block: 32, node: 16, function: 16, argument: 0 } };
+    const rows = [
+      [3n, 0, shapeB, 0],
+      [2n, 0, shapeA, 1],
+      [2n, 0, shapeB, 0], // same address and algorithm: End.DT4 sorts before End.X
+    ] as const;
+    const out = rows.map(([fn, algo, shape, src]) => {
+      const r = sink.row();
+      setSidWords(r, toWords(loc.prefix.first), loc.prefix.first, 64, fn);
+      r.algorithm = algo;
+      r.shape = shape;
+      r.fn = fn;
+      r.source = sources[src]!;
+      r.locator = loc;
+      return r;
+    });
+    sink.writeNode("fell-pe1", [loc], out);
+    const t = sink.finish();
+    expect(t.count).toBe(3);
+    const got = [0, 1, 2].map((i) => t.entry(i));
+    expect(got.map((e) => [e.function, e.behavior, e.key])).toEqual([
+      [2n, "End.DT4", "0|0"],
+      [2n, "End.X", "0|1"],
+      [3n, "End.DT4", "0|0"],
+    ]);
+    expect(got[1]!.context).toBe(sources[1]!.context);
+    expect(got[1]!.flavors).toBe(shapeA.flavors);
+    expect(got[0]!.locator).toBe(loc.prefix);
+    expect(got[2]!.sid).toBe(loc.prefix.first | (3n << 64n));
+    expect(t.toTable().nodes.map((n) => [n.node, n.locators, n.sids.length])).toEqual([["fell-pe1", [loc], 3]]);
+  });
+});
