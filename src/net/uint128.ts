@@ -76,4 +76,3 @@ export function toWords(a: Addr): [number, number, number, number] {
 export function fromWords(w0: number, w1: number, w2: number, w3: number): Addr {
   return (BigInt(w0 >>> 0) << 96n) | (BigInt(w1 >>> 0) << 64n) | (BigInt(w2 >>> 0) << 32n) | BigInt(w3 >>> 0);
 }
-
