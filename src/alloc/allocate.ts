@@ -259,6 +259,9 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   const nodeByName = new Map(plan.nodes.map((n) => [n.name, n]));
   const functionsOut = new Map<string, ReadonlyMap<string, bigint>>();
   const poolMax = new Map<string, { used: bigint; cap: bigint; where: string }>();
+  /** `block/pool` names of each block's pools (in POOL_KINDS order), and a counter per pool. */
+  const poolNames: Record<string, string[]> = Object.create(null);
+  const usedScratch: number[] = POOL_KINDS.map(() => 0);
   let added = 0;
 
   const { byNode: specsFor, all: allSpecs } = buildSpecs(plan, nodeByName, diags);
@@ -433,22 +436,22 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
         taken.add(found);
         added++;
       }
-      // pool usage: how many chosen values fall in each pool (pools the plan names may overlap)
-      const used = new Map<PoolKind, bigint>();
-      for (const kind of POOL_KINDS) used.set(kind, 0n);
+      // pool usage: how many chosen values fall in each pool (pools the plan names may overlap),
+      // counted as numbers, in POOL_KINDS order
+      const used = usedScratch.fill(0);
       const disjoint = poolsDisjoint(pools);
       for (const v of chosen.values()) {
-        for (const kind of POOL_KINDS) {
-          if (!inRanges(v, pools[kind])) continue;
-          used.set(kind, used.get(kind)! + 1n);
+        for (let k = 0; k < POOL_KINDS.length; k++) {
+          if (!inRanges(v, pools[POOL_KINDS[k]!])) continue;
+          used[k]!++;
           if (disjoint) break; // no other pool can hold it
         }
       }
-      for (const kind of POOL_KINDS) {
-        const k = `${b.name}/${kind}`;
-        const prev = poolMax.get(k);
-        const u = used.get(kind)!;
-        if (!prev || u > prev.used) poolMax.set(k, { used: u, cap: prev?.cap ?? rangeSize(pools[kind]), where: owner });
+      const names = (poolNames[b.name] ??= POOL_KINDS.map((kind) => `${b.name}/${kind}`));
+      for (let k = 0; k < POOL_KINDS.length; k++) {
+        const prev = poolMax.get(names[k]!);
+        const u = BigInt(used[k]!);
+        if (!prev || u > prev.used) poolMax.set(names[k]!, { used: u, cap: prev?.cap ?? rangeSize(pools[POOL_KINDS[k]!]), where: owner });
       }
       // SIDs
       for (let si = 0; si < specs.length; si++) {
