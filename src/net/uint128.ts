@@ -72,7 +72,21 @@ export function toWords(a: Addr): [number, number, number, number] {
   ];
 }
 
-/** Inverse of toWords. */
+/** Four 32-bit words seen as two 64-bit halves (fromWords reads two bigints instead of making four). */
+const halves = new BigUint64Array(2);
+const quarters = new Uint32Array(halves.buffer);
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+// halves[0] holds bits 127..64, halves[1] bits 63..0; where each 32-bit word lands depends on byte order
+const Q0 = LITTLE_ENDIAN ? 1 : 0;
+const Q1 = LITTLE_ENDIAN ? 0 : 1;
+const Q2 = LITTLE_ENDIAN ? 3 : 2;
+const Q3 = LITTLE_ENDIAN ? 2 : 3;
+
+/** Inverse of toWords: `(w0 << 96) | (w1 << 64) | (w2 << 32) | w3`, each word taken as unsigned (tests check it against that expression). */
 export function fromWords(w0: number, w1: number, w2: number, w3: number): Addr {
-  return (BigInt(w0 >>> 0) << 96n) | (BigInt(w1 >>> 0) << 64n) | (BigInt(w2 >>> 0) << 32n) | BigInt(w3 >>> 0);
+  quarters[Q0] = w0;
+  quarters[Q1] = w1;
+  quarters[Q2] = w2;
+  quarters[Q3] = w3;
+  return (halves[0]! << 64n) | halves[1]!;
 }
