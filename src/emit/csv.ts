@@ -507,31 +507,8 @@ function writeRows(out: ByteOut, nodeBytes: Uint8Array, sids: readonly SidEntry[
   return i;
 }
 
-/** rowsByNode and PackedCells of the tables csvPackedChunks has written. */
-const packedPrep = new WeakMap<PackedSidTable, { readonly rows: ReturnType<typeof rowsByNode>; readonly cells: PackedCells }>();
-
-/**
- * Rows of a packed table grouped by node, each node's in table order: rows `order[start[id]] ..
- * order[start[id + 1] - 1]`. `order` is left out when the rows already come node by node in id
- * order (an allocation's): the positions are then the rows.
- */
-function rowsByNode(t: PackedSidTable): { readonly order: Int32Array | undefined; readonly start: Int32Array } {
-  const nodes = t.nodeNames.length;
-  const start = new Int32Array(nodes + 1);
-  const node = t.node;
-  let grouped = true;
-  for (let i = 0; i < t.count; i++) {
-    const id = node[i]!;
-    start[id + 1]!++;
-    if (i > 0 && id < node[i - 1]!) grouped = false;
-  }
-  for (let id = 0; id < nodes; id++) start[id + 1]! += start[id]!;
-  if (grouped) return { order: undefined, start };
-  const at = start.slice(0, nodes);
-  const order = new Int32Array(t.count);
-  for (let i = 0; i < t.count; i++) order[at[t.node[i]!]!++] = i;
-  return { order, start };
-}
+/** PackedCells of the tables csvPackedChunks has written. */
+const packedCells = new WeakMap<PackedSidTable, PackedCells>();
 
 /** The cells of a packed table that repeat, encoded once per id (see csvPackedChunks). */
 class PackedCells {
@@ -656,9 +633,9 @@ export function* csvByteChunks(plan: string, nodes: readonly NodeTable[], chunkB
  */
 export function* csvPackedChunks(t: PackedSidTable, nodeIds: readonly number[], chunkBytes = 1 << 20): Generator<Uint8Array> {
   // made once per table: --per-node asks for every node in turn
-  let made = packedPrep.get(t);
-  if (made === undefined) packedPrep.set(t, (made = { rows: rowsByNode(t), cells: new PackedCells(t) }));
-  const { rows, cells } = made;
+  const rows = t.nodeRows();
+  let cells = packedCells.get(t);
+  if (cells === undefined) packedCells.set(t, (cells = new PackedCells(t)));
   const orders = new KeyOrders();
   yield* chunked(t.plan, chunkBytes, nodeIds, (out, id, from, stop) => {
     const first = rows.start[id]!;

@@ -36,8 +36,8 @@ export function tableToJson(t: SidTable, nodes: readonly NodeTable[] = t.nodes):
   return JSON.stringify({ schema: SID_TABLE_SCHEMA_ID, plan: t.plan, caution: CAUTION, nodes: nodes.map(nodeJson) }, null, 2) + "\n";
 }
 
-/** Streamed form of tableToJson: same bytes, produced node by node. */
-export function* jsonChunks(t: SidTable, nodes: readonly NodeTable[] = t.nodes): Generator<string> {
+/** Streamed form of tableToJson: same bytes, produced node by node (`nodes` may be made as they are asked for). */
+export function* jsonChunks(t: Pick<SidTable, "plan"> & Partial<SidTable>, nodes: Iterable<NodeTable> = t.nodes ?? []): Generator<string> {
   yield `{\n  "schema": ${JSON.stringify(SID_TABLE_SCHEMA_ID)},\n  "plan": ${JSON.stringify(t.plan)},\n  "caution": ${JSON.stringify(CAUTION)},\n  "nodes": [`;
   let first = true;
   const cache = new TextCache();

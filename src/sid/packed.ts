@@ -127,6 +127,9 @@ export class PackedSidTable {
   private readonly keyCtx: (string | undefined)[] = [];
   private readonly keyFlv: (string | undefined)[] = [];
   private tableCache: SidTable | undefined;
+  private rowsCache: { readonly order: Int32Array | undefined; readonly start: Int32Array } | undefined;
+  /** Listed locator ids of each node (see freshNode). */
+  private locsByNode: number[][] | undefined;
   /**
    * SidEntry.key of each SID when the builder gives its own (the allocator's lock keys); the keys
    * are otherwise made from the context (see keyOf).
@@ -231,27 +234,31 @@ export class PackedSidTable {
   entry(i: number): SidEntry {
     let e = this.entries !== undefined ? this.entries[i] : this.entryMap?.get(i);
     if (e === undefined) {
-      const behavior = this.behaviors[this.behavior[i]!]!;
-      const flavors = this.flavorSets[this.flavorSet[i]!]!;
-      const algorithm = this.algorithm[i]!;
-      const context = this.contextOf(this.context[i]!);
-      const cp = this.codepoint[i]!;
-      const loc = this.locator[i]!;
-      const st = this.structure[i]!;
-      const row = this.row[i]!;
-      const sid = this.sidAt(i);
-      const codepoint = Number.isNaN(cp) ? undefined : cp;
-      const locator = loc < 0 ? undefined : this.prefixes[this.locPrefix[loc]!];
-      const fn = this.functionAt(i);
-      const structure = st < 0 ? undefined : this.structures[st];
-      const key = this.sidKeys !== undefined ? this.sidKeys(i) : this.keyOf(i, behavior, algorithm);
-      e =
-        row > 0
-          ? { sid, behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key, row }
-          : { sid, behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key };
+      e = this.makeEntry(i);
       this.setEntry(i, e);
     }
     return e;
+  }
+
+  /** SID i as a new SidEntry object (entry() keeps the one it makes). */
+  private makeEntry(i: number): SidEntry {
+    const behavior = this.behaviors[this.behavior[i]!]!;
+    const flavors = this.flavorSets[this.flavorSet[i]!]!;
+    const algorithm = this.algorithm[i]!;
+    const context = this.contextOf(this.context[i]!);
+    const cp = this.codepoint[i]!;
+    const loc = this.locator[i]!;
+    const st = this.structure[i]!;
+    const row = this.row[i]!;
+    const sid = this.sidAt(i);
+    const codepoint = Number.isNaN(cp) ? undefined : cp;
+    const locator = loc < 0 ? undefined : this.prefixes[this.locPrefix[loc]!];
+    const fn = this.functionAt(i);
+    const structure = st < 0 ? undefined : this.structures[st];
+    const key = this.sidKeys !== undefined ? this.sidKeys(i) : this.keyOf(i, behavior, algorithm);
+    return row > 0
+      ? { sid, behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key, row }
+      : { sid, behavior, flavors, codepoint, algorithm, locator, function: fn, structure, context, key };
   }
 
   /**
@@ -281,6 +288,53 @@ export class PackedSidTable {
       this.locEntries[id] = l;
     }
     return l;
+  }
+
+  /**
+   * Rows of the table grouped by node, each node's in table order: rows `order[start[id]] ..
+   * order[start[id + 1] - 1]`. `order` is left out when the rows already come node by node in id
+   * order (an allocation's): the positions are then the rows. Made once.
+   */
+  nodeRows(): { readonly order: Int32Array | undefined; readonly start: Int32Array } {
+    if (this.rowsCache) return this.rowsCache;
+    const nodes = this.nodeNames.length;
+    const start = new Int32Array(nodes + 1);
+    const node = this.node;
+    let grouped = true;
+    for (let i = 0; i < this.count; i++) {
+      const id = node[i]!;
+      start[id + 1]!++;
+      if (i > 0 && id < node[i - 1]!) grouped = false;
+    }
+    for (let id = 0; id < nodes; id++) start[id + 1]! += start[id]!;
+    let order: Int32Array | undefined;
+    if (!grouped) {
+      const at = start.slice(0, nodes);
+      order = new Int32Array(this.count);
+      for (let i = 0; i < this.count; i++) order[at[node[i]!]!++] = i;
+    }
+    this.rowsCache = { order, start };
+    return this.rowsCache;
+  }
+
+  /**
+   * Node `id` as a NodeTable, its SID objects made for the occasion and not kept (the table's own
+   * when they exist already): for writing a large table node by node without holding an object
+   * per SID. The same content as toTable's node.
+   */
+  freshNode(id: number): NodeTable {
+    const { order, start } = this.nodeRows();
+    const sids: SidEntry[] = [];
+    for (let k = start[id]!; k < start[id + 1]!; k++) {
+      const i = order === undefined ? k : order[k]!;
+      sids.push(this.tableCache !== undefined || this.entries !== undefined ? this.entry(i) : this.makeEntry(i));
+    }
+    let locs = this.locsByNode;
+    if (locs === undefined) {
+      locs = this.locsByNode = Array.from({ length: this.nodeNames.length }, () => []);
+      for (let l = 0; l < this.locatorCount; l++) if (!this.unlisted.has(l)) locs[this.locNode[l]!]!.push(l);
+    }
+    return { node: this.nodeNames[id]!, locators: locs[id]!.map((l) => this.locatorEntry(l)), sids };
   }
 
   /** Node ids in the order of toTable's nodes: by name (equal names in id order). */

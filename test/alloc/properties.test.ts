@@ -12,6 +12,7 @@ import { stringify } from "yaml";
 import { type Allocation, allocate } from "../../src/alloc/allocate.js";
 import { type Lock, parseLock, serializeLock } from "../../src/alloc/lock.js";
 import { csvByteChunks, csvPackedChunks, tableToCsv } from "../../src/emit/csv.js";
+import { jsonChunks, tableToJson } from "../../src/emit/json.js";
 import { Prefix } from "../../src/net/prefix.js";
 import { getField } from "../../src/net/uint128.js";
 import { formatDiagnostic } from "../../src/plan/diagnostic.js";
@@ -459,7 +460,10 @@ describe("allocator properties on random valid plans", () => {
     fc.assert(
       fc.property(specArb, (s) => {
         const a = run(load(buildModel(s)));
+        // JSON from SID objects made a node at a time (before the table's own objects exist)
+        const freshJson = [...jsonChunks(a.packed, a.packed.nodeIdsByName().map((id) => a.packed.freshNode(id)))].join("");
         const t = a.table; // made from the columns
+        expect(freshJson).toBe(tableToJson(t));
         let count = 0;
         for (const n of t.nodes) {
           const ownerOf = new Map(n.locators.map((l) => [l.prefix, l.anycast ? `anycast:${l.anycast}` : n.node]));

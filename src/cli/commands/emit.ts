@@ -20,12 +20,17 @@ export function runEmit(planFile: string, flags: EmitFlags, io: Io): number {
   const plan = loadPlanFile(planFile);
   const a = lockedAllocation(plan, lockPathFor(planFile, flags.lock));
   const packed = a.packed;
-  // CSV files are written from the allocation's columns (no SID objects); JSON and standard output from the objects
+  // CSV files are written from the allocation's columns (no SID objects); JSON files from SID
+  // objects made a node at a time; standard output from the table's objects
   const ids = packed.nodeIdsByName();
   const names = ids.map((id) => packed.nodeNames[id]!);
   const csv = flags.format === "csv";
-  // nodes by their place in `ids`, which is also the order of the table's nodes (see PackedSidTable.toTable)
-  const fileChunks = (at: readonly number[]) => (csv ? csvPackedChunks(packed, at.map((k) => ids[k]!)) : jsonChunks(a.table, at.map((k) => a.table.nodes[k]!)));
+  // nodes by their place in `ids` (the order of the table's nodes, see PackedSidTable.toTable);
+  // JSON files get each node's SID objects made as it is written, and dropped after
+  const fresh = function* (at: readonly number[]) {
+    for (const k of at) yield packed.freshNode(ids[k]!);
+  };
+  const fileChunks = (at: readonly number[]) => (csv ? csvPackedChunks(packed, at.map((k) => ids[k]!)) : jsonChunks(packed, fresh(at)));
   const ext = flags.format;
   if (!flags.out) {
     if (flags.perNode) throw new UsageError("--per-node needs --out DIR (one file per node)");
