@@ -4,6 +4,7 @@
  */
 import type { Prefix } from "../net/prefix.js";
 import { formatAddr, formatWordsInto } from "../net/text.js";
+import { wordsInto } from "../net/uint128.js";
 import type { PackedSidTable } from "../sid/packed.js";
 import { type NodeTable, type SidContext, type SidEntry, type SidTable, formatContext } from "../sid/table.js";
 import { CAUTION } from "./caution.js";
@@ -256,21 +257,13 @@ function hexInto(buf: Uint8Array, p: number, n: number): number {
   return p;
 }
 
-/** bigint to four 32-bit words through a typed array: cheaper than four shifts and masks. */
-const wide = new BigUint64Array(2);
-const narrow = new Uint32Array(wide.buffer);
-const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
-// wide[0] holds bits 127..64, wide[1] bits 63..0; where each 32-bit half lands depends on byte order
-const W0 = LITTLE_ENDIAN ? 1 : 0;
-const W1 = LITTLE_ENDIAN ? 0 : 1;
-const W2 = LITTLE_ENDIAN ? 3 : 2;
-const W3 = LITTLE_ENDIAN ? 2 : 3;
+/** Where addressInto has the words of an address put. */
+const addrWords = new Uint32Array(4);
 
 /** formatAddr(a) at `p` (room was made): the low 128 bits, as formatAddr's masks take them. */
 function addressInto(buf: Uint8Array, p: number, a: bigint): number {
-  wide[0] = a >> 64n;
-  wide[1] = a;
-  return formatWordsInto(buf, p, narrow[W0]!, narrow[W1]!, narrow[W2]!, narrow[W3]!);
+  wordsInto(a, addrWords);
+  return formatWordsInto(buf, p, addrWords[0]!, addrWords[1]!, addrWords[2]!, addrWords[3]!);
 }
 
 /** How many key lists (as Object.keys gives them) KeyOrders keeps; an allocation has a handful. */

@@ -72,7 +72,7 @@ export function toWords(a: Addr): [number, number, number, number] {
   ];
 }
 
-/** Four 32-bit words seen as two 64-bit halves (fromWords reads two bigints instead of making four). */
+/** Four 32-bit words seen as two 64-bit halves (fromWords and wordsInto pass two bigints instead of four). */
 const halves = new BigUint64Array(2);
 const quarters = new Uint32Array(halves.buffer);
 const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
@@ -89,4 +89,14 @@ export function fromWords(w0: number, w1: number, w2: number, w3: number): Addr 
   quarters[Q2] = w2;
   quarters[Q3] = w3;
   return (halves[0]! << 64n) | halves[1]!;
+}
+
+/** toWords into `out` (the low 128 bits of `a`, most significant word first), through the two halves: no bigint is made. */
+export function wordsInto(a: Addr, out: Uint32Array): void {
+  halves[0] = a >> 64n;
+  halves[1] = a;
+  out[0] = quarters[Q0]!;
+  out[1] = quarters[Q1]!;
+  out[2] = quarters[Q2]!;
+  out[3] = quarters[Q3]!;
 }

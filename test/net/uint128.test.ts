@@ -6,7 +6,7 @@ import fc from "fast-check";
 import ipaddr from "ipaddr.js";
 import { describe, expect, it } from "vitest";
 import { formatAddr } from "../../src/net/text.js";
-import { ALL_ONES, fromWords, toWords } from "../../src/net/uint128.js";
+import { ALL_ONES, fromWords, toWords, wordsInto } from "../../src/net/uint128.js";
 
 const word = fc.oneof(fc.integer({ min: 0, max: 0xffffffff }), fc.constantFrom(0, 1, 0x7fffffff, 0x80000000, 0xffffffff));
 
@@ -19,6 +19,9 @@ describe("address words", () => {
         // the same words as signed 32-bit numbers (an Int32Array's) give the same address
         expect(fromWords(a | 0, b | 0, c | 0, d | 0)).toBe(ref);
         expect(toWords(ref)).toEqual([a, b, c, d]);
+        const out = new Uint32Array(4);
+        wordsInto(ref, out);
+        expect([...out]).toEqual([a, b, c, d]);
       }),
       { seed: 5952, numRuns: 5000 },
     );
