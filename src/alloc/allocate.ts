@@ -35,7 +35,7 @@ export interface UsageRow {
 
 export interface Allocation {
   readonly plan: Plan;
-  /** The SIDs as objects, node by node in plan order (made from `packed` on first use). */
+  /** The SIDs as objects: nodes sorted by name, each node's SIDs by address (made from `packed` on first use). */
   readonly table: SidTable;
   /** The same SIDs in columns, as the allocator wrote them (emitters and the linter read these). */
   readonly packed: PackedSidTable;
