@@ -137,7 +137,14 @@ switch (stage) {
     const { ms, last } = timed(() => {
       let bytes = 0;
       const chunks =
-        stage === "emit-json" ? jsonChunks(a.table, a.table.nodes) : csvPackedChunks && a.packed ? csvPackedChunks(a.packed, a.packed.nodeIdsByName()) : (csvByteChunks ?? csvChunks)(a.table.plan, a.table.nodes);
+        stage === "emit-json"
+          ? // as the CLI writes JSON files: SID objects made a node at a time where the build can
+            a.packed?.freshNode
+            ? jsonChunks(a.packed, (function* () { for (const id of a.packed.nodeIdsByName()) yield a.packed.freshNode(id); })())
+            : jsonChunks(a.table, a.table.nodes)
+          : csvPackedChunks && a.packed
+            ? csvPackedChunks(a.packed, a.packed.nodeIdsByName())
+            : (csvByteChunks ?? csvChunks)(a.table.plan, a.table.nodes);
       for (const c of chunks) bytes += c.length;
       return bytes;
     });
