@@ -3,6 +3,7 @@
  * same folder, then rename), and the rule that we only overwrite files we wrote ourselves.
  */
 import { closeSync, fsyncSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, statSync, writeSync } from "node:fs";
+import { open } from "node:fs/promises";
 import { hostname } from "node:os";
 import { basename, dirname, join } from "node:path";
 import type { Diagnostic } from "../plan/diagnostic.js";
@@ -99,6 +100,26 @@ export function checkWritable(paths: readonly string[], options: WriteOptions = 
   }
 }
 
+/** The temporary file beside `path` that an atomic write goes through (its name starts with '.' and holds '.tmp-'). */
+function tempBeside(path: string, options: WriteOptions): string {
+  const dir = dirname(path);
+  mkdirSync(dir, { recursive: true });
+  checkWritable([path], options);
+  return join(dir, `.${basename(path)}.tmp-${process.pid}-${Math.random().toString(36).slice(2, 10)}`);
+}
+
+/** Rename the finished temporary file over `path` (or remove it when that fails). */
+function moveInto(tmp: string, path: string): void {
+  try {
+    renameSync(tmp, path);
+  } catch (e) {
+    rmSync(tmp, { force: true });
+    throw e;
+  }
+}
+
+const bytesOf = (c: string | Uint8Array): Uint8Array => (typeof c === "string" ? Buffer.from(c, "utf8") : c);
+
 /**
  * Write `chunks` to `path` atomically: into a temporary file in the same folder, flushed, then
  * renamed over the target. Strings are written as UTF-8, byte chunks as they are (each one is
@@ -106,14 +127,11 @@ export function checkWritable(paths: readonly string[], options: WriteOptions = 
  * at worst a stray temporary file whose name starts with '.' and holds '.tmp-').
  */
 export function writeAtomic(path: string, chunks: Iterable<string | Uint8Array>, options: WriteOptions = {}): void {
-  const dir = dirname(path);
-  mkdirSync(dir, { recursive: true });
-  checkWritable([path], options);
-  const tmp = join(dir, `.${basename(path)}.tmp-${process.pid}-${Math.random().toString(36).slice(2, 10)}`);
+  const tmp = tempBeside(path, options);
   const fd = openSync(tmp, "w", 0o644);
   try {
     for (const c of chunks) {
-      const buf = typeof c === "string" ? Buffer.from(c, "utf8") : c;
+      const buf = bytesOf(c);
       let off = 0;
       while (off < buf.length) off += writeSync(fd, buf, off);
     }
@@ -124,12 +142,41 @@ export function writeAtomic(path: string, chunks: Iterable<string | Uint8Array>,
     throw e;
   }
   closeSync(fd);
+  moveInto(tmp, path);
+}
+
+/**
+ * writeAtomic for large outputs: the same temporary file, flush and rename, but each chunk is
+ * written by the operating system's thread while the next one is made, so that making the bytes
+ * and writing them overlap (one write in flight at a time, so at most two chunks are held). The
+ * chunks must be fresh buffers (not one buffer reused), as the CSV and JSON writers give them.
+ */
+export async function writeAtomicOverlapped(path: string, chunks: Iterable<string | Uint8Array>, options: WriteOptions = {}): Promise<void> {
+  const tmp = tempBeside(path, options);
+  const fh = await open(tmp, "w", 0o644);
+  let inFlight: Promise<void> | undefined;
+  const writeAll = async (buf: Uint8Array): Promise<void> => {
+    let off = 0;
+    while (off < buf.length) off += (await fh.write(buf, off, buf.length - off)).bytesWritten;
+  };
   try {
-    renameSync(tmp, path);
+    for (const c of chunks) {
+      const buf = bytesOf(c);
+      if (inFlight) await inFlight;
+      inFlight = writeAll(buf);
+      // a failed write is reported at the next await (below or in the next round), not as unhandled
+      inFlight.catch(() => {});
+    }
+    if (inFlight) await inFlight;
+    await fh.sync();
   } catch (e) {
+    await inFlight?.catch(() => {});
+    await fh.close();
     rmSync(tmp, { force: true });
     throw e;
   }
+  await fh.close();
+  moveInto(tmp, path);
 }
 
 /** After this long a busy marker is taken to be left over from a run that died (ms). */

@@ -44,7 +44,7 @@ export function buildProgram(io: Io): Command & { exitCode?: number } {
     .option("--per-node", "one file per node")
     .option("--lock <file>", "lock file (default: <plan>.lock.json beside the plan)")
     .option("--force", "overwrite files that sidcarve did not write")
-    .action((plan: string, flags) => done(runEmit(plan, flags, io)));
+    .action(async (plan: string, flags) => done(await runEmit(plan, flags, io)));
 
   program
     .command("decode")

@@ -192,20 +192,20 @@ describe("the emit command", () => {
   copyFileSync(new URL("../../sample-plans/harbourline-metro.yaml", import.meta.url), plan);
   const io = (out: string[]): Io => ({ out: (s) => void out.push(s), err: () => {}, isTty: false, now: new Date("2026-06-01T00:00:00Z") });
 
-  it("writes the table to standard output chunk by chunk, with tableToCsv's bytes", () => {
+  it("writes the table to standard output chunk by chunk, with tableToCsv's bytes", async () => {
     expect(runAllocate(plan, {}, io([]))).toBe(0);
     const a = lockedAllocation(loadPlanFile(plan), lockPathFor(plan));
     for (const format of ["csv", "json"] as const) {
       const out: string[] = [];
-      expect(runEmit(plan, { format }, io(out))).toBe(0);
+      expect(await runEmit(plan, { format }, io(out))).toBe(0);
       expect(out.length).toBeGreaterThan(a.table.nodes.length);
       expect(out.join("")).toBe(format === "csv" ? tableToCsv(a.table) : tableToJson(a.table));
     }
   });
 
-  it("writes the same bytes to a file", () => {
+  it("writes the same bytes to a file", async () => {
     const out: string[] = [];
-    expect(runEmit(plan, { format: "csv", out: join(dir, "tables") }, io(out))).toBe(0);
+    expect(await runEmit(plan, { format: "csv", out: join(dir, "tables") }, io(out))).toBe(0);
     const a = lockedAllocation(loadPlanFile(plan), lockPathFor(plan));
     expect(readFileSync(join(dir, "tables", "harbourline-metro.sids.csv"), "utf8")).toBe(tableToCsv(a.table));
   });
@@ -213,7 +213,7 @@ describe("the emit command", () => {
   // The files (CSV written from csvByteChunks) hold the UTF-8 bytes of the strings, byte for byte,
   // for every sample plan, as one file and one file per node.
   for (const sample of ["harbourline-metro", "tessaline-backbone"]) {
-    it(`writes ${sample} as one file and per node with the bytes of tableToCsv`, () => {
+    it(`writes ${sample} as one file and per node with the bytes of tableToCsv`, async () => {
       const own = join(dir, sample);
       const planFile = join(dir, `${sample}.yaml`);
       const lock = join(own, "plan.lock.json");
@@ -222,16 +222,16 @@ describe("the emit command", () => {
       const p = loadPlanFile(planFile);
       const t = lockedAllocation(p, lock).table;
       expect(t.nodes.length).toBeGreaterThan(1);
-      expect(runEmit(planFile, { format: "csv", lock, out: join(own, "one") }, io([]))).toBe(0);
+      expect(await runEmit(planFile, { format: "csv", lock, out: join(own, "one") }, io([]))).toBe(0);
       expect(readFileSync(join(own, "one", `${safeFileName(p.name)}.sids.csv`)).equals(Buffer.from(tableToCsv(t), "utf8"))).toBe(true);
-      expect(runEmit(planFile, { format: "csv", lock, out: join(own, "nodes"), perNode: true }, io([]))).toBe(0);
+      expect(await runEmit(planFile, { format: "csv", lock, out: join(own, "nodes"), perNode: true }, io([]))).toBe(0);
       expect(readdirSync(join(own, "nodes")).length).toBe(t.nodes.length);
       for (const n of t.nodes) {
         const bytes = readFileSync(join(own, "nodes", `${safeFileName(n.node)}.csv`));
         expect(bytes.equals(Buffer.from(tableToCsv({ plan: t.plan, nodes: [n] }), "utf8"))).toBe(true);
       }
       // JSON files are still written from strings
-      expect(runEmit(planFile, { format: "json", lock, out: join(own, "json") }, io([]))).toBe(0);
+      expect(await runEmit(planFile, { format: "json", lock, out: join(own, "json") }, io([]))).toBe(0);
       expect(readFileSync(join(own, "json", `${safeFileName(p.name)}.sids.json`), "utf8")).toBe(tableToJson(t));
     });
   }

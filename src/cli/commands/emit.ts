@@ -4,7 +4,7 @@ import { csvChunks, csvPackedChunks } from "../../emit/csv.js";
 import { jsonChunks } from "../../emit/json.js";
 import { safeFileName } from "../../emit/names.js";
 import type { Io } from "../context.js";
-import { UsageError, checkWritable, writeAtomic } from "../io.js";
+import { UsageError, checkWritable, writeAtomicOverlapped } from "../io.js";
 import { loadPlanFile, lockPathFor, lockedAllocation } from "../plan-files.js";
 
 export interface EmitFlags {
@@ -15,7 +15,7 @@ export interface EmitFlags {
   readonly force?: boolean;
 }
 
-export function runEmit(planFile: string, flags: EmitFlags, io: Io): number {
+export async function runEmit(planFile: string, flags: EmitFlags, io: Io): Promise<number> {
   if (flags.format !== "csv" && flags.format !== "json") throw new UsageError(`--format ${JSON.stringify(flags.format)} is not allowed; use csv or json`);
   const plan = loadPlanFile(planFile);
   const a = lockedAllocation(plan, lockPathFor(planFile, flags.lock));
@@ -43,11 +43,11 @@ export function runEmit(planFile: string, flags: EmitFlags, io: Io): number {
     const files = names.map((n) => join(flags.out!, `${safeFileName(n)}.${ext}`));
     // check every target first, so a refusal never leaves half a set written
     checkWritable(files, { force: flags.force });
-    files.forEach((f, k) => writeAtomic(f, fileChunks([k]), { force: flags.force }));
+    for (let k = 0; k < files.length; k++) await writeAtomicOverlapped(files[k]!, fileChunks([k]), { force: flags.force });
     io.out(`${ids.length} ${ext.toUpperCase()} tables written to ${flags.out}/\n`);
   } else {
     const file = join(flags.out, `${safeFileName(plan.name)}.sids.${ext}`);
-    writeAtomic(file, fileChunks(ids.map((_, k) => k)), { force: flags.force });
+    await writeAtomicOverlapped(file, fileChunks(ids.map((_, k) => k)), { force: flags.force });
     io.out(`SID table written to ${file}\n`);
   }
   return 0;
