@@ -4,12 +4,11 @@
  */
 import { createRequire } from "node:module";
 import type { ErrorObject, ValidateFunction } from "ajv";
-import type { Ajv2020 as Ajv2020Class } from "ajv/dist/2020.js";
 import type { Node as YamlNode, Document } from "yaml";
 import type * as YamlModule from "yaml";
 import { type Diagnostic, type SourceLocation, quote } from "./diagnostic.js";
 import { type FastPositions, fastParseWithPositions } from "./fast-yaml.js";
-import { PLAN_SCHEMA } from "./schema.js";
+import { validate as generatedValidate } from "./plan-validator.generated.js";
 
 /**
  * Maps a path inside the parsed data back to file:line:column. A scalar is located at its value;
@@ -264,16 +263,11 @@ function depthOf(v: unknown, d: number): number {
   return d;
 }
 
-let planValidator: ValidateFunction | undefined;
+/** The plan schema's validator, compiled ahead of time (see validator-code.ts). */
+const planValidator = generatedValidate as unknown as ValidateFunction;
 
 /** Validate plan data against the plan schema; each error is located and says what is allowed. */
 export function validatePlanData(data: unknown, locate: Locator): Diagnostic[] {
-  if (!planValidator) {
-    // verbose: errors carry their schema, which the messages use to say what is allowed
-    const { Ajv2020 } = require("ajv/dist/2020.js") as { Ajv2020: typeof Ajv2020Class };
-    const ajv = new Ajv2020({ allErrors: true, strict: false, verbose: true });
-    planValidator = ajv.compile(PLAN_SCHEMA);
-  }
   if (planValidator(data)) return [];
   return schemaDiagnostics(planValidator.errors ?? [], data, locate);
 }
