@@ -348,8 +348,9 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
         }
         return v;
       };
-      // pass 1: pins and locked values
-      const chosen = new Map<string, bigint>();
+      // pass 1: pins and locked values. Each spec's value by its place in `specs` (a spec's key is
+      // its own on a locator: the plan refuses repeated names, buildSpecs parallel links)
+      const chosen: (bigint | undefined)[] = new Array<bigint | undefined>(specs.length).fill(undefined);
       for (let si = 0; si < specs.length; si++) {
         const s = specs[si]!;
         const key = keys[si]!;
@@ -375,7 +376,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
             diags.push({ code: "alloc/pin-conflict", message: `function ${hex(s.pinned)} pinned for ${s.behavior} ${quote(s.key)} on ${owner} is already used or retired on that locator`, location: plan.locate(s.at) });
             continue;
           }
-          chosen.set(key, s.pinned);
+          chosen[si] = s.pinned;
           taken.add(s.pinned);
         } else if (locked !== undefined) {
           const pool = pools[s.pool];
@@ -390,7 +391,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
             diags.push({ code: "alloc/lock-conflict", message: `the lock gives function ${hex(locked)} twice on ${owner} (algorithm ${algo}); restore the lock from version control`, location: { file: plan.file } });
             continue;
           }
-          chosen.set(key, locked);
+          chosen[si] = locked;
           taken.add(locked);
         }
       }
@@ -398,8 +399,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const cursors = new Map<PoolKind, { range: number; next: bigint }>();
       for (let si = 0; si < specs.length; si++) {
         const s = specs[si]!;
-        const key = keys[si]!;
-        if (s.noFunction || chosen.has(key)) continue;
+        if (s.noFunction || chosen[si] !== undefined) continue;
         const pool = pools[s.pool];
         const cur = cursors.get(s.pool) ?? { range: 0, next: pool[0]?.first ?? 0n };
         let found: bigint | undefined;
@@ -432,7 +432,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
           diags.push({ code: "alloc/pool-full", message: `the ${s.pool} function pool of block ${quote(b.name)} (${rangeSize(pool)} values) is exhausted on ${owner} (algorithm ${algo}); widen the pool or the function field`, location: plan.locate(s.at) });
           continue;
         }
-        chosen.set(key, found);
+        chosen[si] = found;
         taken.add(found);
         added++;
       }
@@ -440,7 +440,14 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       // counted as numbers, in POOL_KINDS order
       const used = usedScratch.fill(0);
       const disjoint = poolsDisjoint(pools);
-      for (const v of chosen.values()) {
+      for (let si = 0; si < specs.length; si++) {
+        const v = chosen[si];
+        if (v === undefined) continue;
+        // the usual case: the value is in its own spec's pool, and no other pool can hold it
+        if (disjoint && inRanges(v, pools[specs[si]!.pool])) {
+          used[POOL_INDEX[specs[si]!.pool]]!++;
+          continue;
+        }
         for (let k = 0; k < POOL_KINDS.length; k++) {
           if (!inRanges(v, pools[POOL_KINDS[k]!])) continue;
           used[k]!++;
@@ -457,7 +464,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       for (let si = 0; si < specs.length; si++) {
         const s = specs[si]!;
         const key = keys[si]!;
-        const fn = s.noFunction ? 0n : chosen.get(key);
+        const fn = s.noFunction ? 0n : chosen[si];
         if (fn === undefined) continue;
         if (!s.noFunction) {
           outKeys.push(key);
@@ -855,6 +862,9 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
   });
   return { byNode: out, all };
 }
+
+/** Each pool kind's place in POOL_KINDS. */
+const POOL_INDEX = Object.fromEntries(POOL_KINDS.map((k, i) => [k, i])) as Record<PoolKind, number>;
 
 const disjointCache = new WeakMap<Record<PoolKind, ValueRange[]>, boolean>();
 

@@ -352,6 +352,33 @@ export function normalizePlan(raw: Raw, file: string, locate: Locator): { ok: tr
     (t.nodes as string[]).forEach((n, j) => needNode(n, ["tables", i, "nodes", j], "table node"));
     return { name: t.name, table: t.table, nodes: t.nodes, flavors: flav(t.flavors) };
   });
+  // Names that make up a SID's key in the lock may not repeat: two VRFs (or CEs of a VRF, L2
+  // services, attachment circuits, policies of a headend, tables) with one name would give one
+  // node two SIDs under one key, or quietly merge two services in the lock.
+  const unique = <T>(list: readonly T[], keyOf: (x: T) => string, at: (i: number) => Path, say: (x: T, first: number) => string) => {
+    const seen = new Map<string, number>();
+    list.forEach((x, i) => {
+      const k = keyOf(x);
+      const first = seen.get(k);
+      if (first !== undefined) err("plan/duplicate", at(i), say(x, first));
+      else seen.set(k, i);
+    });
+  };
+  unique(vrfs, (v) => v.name, (i) => ["vrfs", i, "name"], (v, f) => `VRF ${quote(v.name)} is listed twice (first as vrfs entry ${f + 1}); VRF names must be unique`);
+  vrfs.forEach((v, i) =>
+    unique(v.ces, (c) => c.name, (j) => ["vrfs", i, "ces", j, "name"], (c, f) => `CE ${quote(c.name)} is listed twice in VRF ${quote(v.name)} (first as ces entry ${f + 1}); CE names must be unique within a VRF`),
+  );
+  unique(l2, (s) => s.name, (i) => ["l2-services", i, "name"], (s, f) => `L2 service ${quote(s.name)} is listed twice (first as l2-services entry ${f + 1}); L2 service names must be unique`);
+  l2.forEach((s, i) =>
+    unique(
+      s.attachments,
+      (a) => JSON.stringify([a.node, a.iface ?? null, a.vlan ?? null]),
+      (j) => ["l2-services", i, "attachments", j],
+      (a, f) => `attachment ${quote(a.node)}${a.iface ? ` interface ${quote(a.iface)}` : ""}${a.vlan !== undefined ? ` VLAN ${a.vlan}` : ""} is listed twice in ${s.kind} ${quote(s.name)} (first as attachments entry ${f + 1}); each attachment circuit needs an interface or VLAN of its own`,
+    ),
+  );
+  unique(policies, (p) => JSON.stringify([p.node, p.name]), (i) => ["policies", i, "name"], (p, f) => `policy ${quote(p.name)} is listed twice on headend ${quote(p.node)} (first as policies entry ${f + 1}); policy names must be unique on a headend`);
+  unique(tables, (t) => t.name, (i) => ["tables", i, "name"], (t, f) => `table ${quote(t.name)} is listed twice (first as tables entry ${f + 1}); table names must be unique`);
   // Each End SID is known by its flavour set (order does not count): two entries with the same
   // set would be one SID listed twice, and the lock would then hold one value for two SIDs.
   const endSids = ((raw["end-sids"] ?? [{ flavors: [] }]) as Raw[]).map((e) => flav(e.flavors));

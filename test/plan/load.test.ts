@@ -320,6 +320,33 @@ describe("references between objects", () => {
     expect(loadPlanText(base({ "end-sids": [{ flavors: [] }, { flavors: ["PSP"] }, { flavors: ["PSP", "USD"] }] }), "ok.yaml").ok).toBe(true);
   });
 
+  // Names that key SIDs in the lock: a repeat would give one node two SIDs under one key (found
+  // when two VRFs named alike were accepted without a word).
+  it.each([
+    ["two VRFs of one name", { vrfs: [{ name: "v", pes: ["r1"], families: ["ipv4"] }, { name: "v", pes: ["r1"], families: ["ipv4"] }] }, "vrfs.1.name", '"v"'],
+    ["two CEs of one name in a VRF", { vrfs: [{ name: "v", pes: ["r1"], ces: [{ name: "c", pe: "r1", family: "ipv4" }, { name: "c", pe: "r1", family: "ipv6" }] }] }, "vrfs.0.ces.1.name", '"c"'],
+    ["two L2 services of one name", { "l2-services": [{ name: "w", kind: "wire", attachments: [{ node: "r1", interface: "e1" }] }, { name: "w", kind: "bridge", nodes: ["r1"] }] }, "l2-services.1.name", '"w"'],
+    ["one attachment circuit twice", { "l2-services": [{ name: "w", kind: "vlan-wire", attachments: [{ node: "r1", interface: "e1", vlan: 7 }, { node: "r1", interface: "e1", vlan: 7 }] }] }, "l2-services.0.attachments.1", "VLAN 7"],
+    ["two policies of one name on a headend", { policies: [{ name: "p", node: "r1" }, { name: "p", node: "r1", behavior: "End.B6.Encaps.Red" }] }, "policies.1.name", '"p"'],
+    ["two tables of one name", { tables: [{ name: "t", nodes: ["r1"] }, { name: "t", nodes: ["r1"] }] }, "tables.1.name", '"t"'],
+  ])("refuses %s, at the second", (_what, extra, path, quoted) => {
+    const d = only(diagnosticsOf(base(extra)), path);
+    expect(d.code).toBe("plan/duplicate");
+    expect(d.message).toContain(quoted);
+    expect(d.message).toContain("first as");
+  });
+
+  it("accepts the same names where they do not share a key", () => {
+    // one CE name in two VRFs, one policy name on two headends, one circuit on two VLANs
+    const text = base({
+      nodes: [{ name: "r1", place: "north/quay" }, { name: "r2", place: "south/dock" }],
+      vrfs: [{ name: "v", pes: ["r1"], ces: [{ name: "c", pe: "r1", family: "ipv4" }] }, { name: "w", pes: ["r1"], ces: [{ name: "c", pe: "r1", family: "ipv4" }] }],
+      "l2-services": [{ name: "q", kind: "vlan-wire", attachments: [{ node: "r1", interface: "e1", vlan: 7 }, { node: "r1", interface: "e1", vlan: 8 }] }],
+      policies: [{ name: "p", node: "r1" }, { name: "p", node: "r2" }],
+    });
+    expect(loadPlanText(text, "ok.yaml").ok).toBe(true);
+  });
+
   it("refuses a duplicate node name at the second occurrence", () => {
     const d = only(diagnosticsOf(base({ nodes: [{ name: "r1", place: "north/quay" }, { name: "r1", place: "south/dock" }] })), "nodes.1.name");
     expect(d.code).toBe("plan/duplicate");
