@@ -206,6 +206,12 @@ export function normalizePlan(raw: Raw, file: string, locate: Locator): { ok: tr
         `block ${quote(b.name)} has ${layout.nodeBits} node bits but the levels take ${levelBits} (${levels.map((l) => `${l.name} ${l.bits}`).join(" + ")})${algorithmBits ? ` plus ${algorithmBits} algorithm bits` : ""}; the node bits must equal the sum`,
       );
     }
+    // Blocks are carved independently: two that share addresses would hand one locator to two
+    // nodes (or one node two locators that overlap). Refuse the later one.
+    const clash = blocks.find((o) => o.prefix.overlaps(prefix));
+    if (clash) {
+      return err("plan/block-overlap", [...at, "prefix"], `block ${quote(b.name)} (${prefix.format()}) overlaps block ${quote(clash.name)} (${clash.prefix.format()}); blocks must not share addresses (one block can serve several algorithms with algorithm-bits)`);
+    }
     blocks.push({ name: b.name, index: i, prefix, algorithms: algos, algorithmBits, groups: b.groups ?? [], layout });
   });
 
@@ -291,8 +297,13 @@ export function normalizePlan(raw: Raw, file: string, locate: Locator): { ok: tr
   };
 
   // --- anycast
+  const anycastSeen = new Map<string, number>();
   const anycast: AnycastGroup[] = ((raw.anycast ?? []) as Raw[]).map((a, i) => {
     const at = ["anycast", i];
+    // two groups of one name would share one lock entry and one member list: refuse the second
+    const first = anycastSeen.get(a.name);
+    if (first !== undefined) err("plan/duplicate", [...at, "name"], `anycast group ${quote(a.name)} is listed twice (first as anycast entry ${first + 1}); anycast group names must be unique`);
+    else anycastSeen.set(a.name, i);
     const place = (a.place ?? "") as string;
     if (placeDepth > 0 && !groupByPath.has(place)) err("plan/reference", [...at, "place"], `place ${quote(place)} is not a group of the plan`);
     if (nodeSet.has(a.name)) err("plan/duplicate", [...at, "name"], `anycast group ${quote(a.name)} has the name of a node; use a name of its own`);

@@ -329,11 +329,32 @@ describe("references between objects", () => {
     ["one attachment circuit twice", { "l2-services": [{ name: "w", kind: "vlan-wire", attachments: [{ node: "r1", interface: "e1", vlan: 7 }, { node: "r1", interface: "e1", vlan: 7 }] }] }, "l2-services.0.attachments.1", "VLAN 7"],
     ["two policies of one name on a headend", { policies: [{ name: "p", node: "r1" }, { name: "p", node: "r1", behavior: "End.B6.Encaps.Red" }] }, "policies.1.name", '"p"'],
     ["two tables of one name", { tables: [{ name: "t", nodes: ["r1"] }, { name: "t", nodes: ["r1"] }] }, "tables.1.name", '"t"'],
+    ["two anycast groups of one name", { anycast: [{ name: "edge", place: "north/quay" }, { name: "edge", place: "south/dock" }] }, "anycast.1.name", '"edge"'],
   ])("refuses %s, at the second", (_what, extra, path, quoted) => {
     const d = only(diagnosticsOf(base(extra)), path);
     expect(d.code).toBe("plan/duplicate");
     expect(d.message).toContain(quoted);
     expect(d.message).toContain("first as");
+  });
+
+  // Two blocks that share addresses would give two nodes one locator: found as hundreds of
+  // duplicate SIDs in lint before; now one error at the second block.
+  it.each([
+    ["the same prefix", "5f00:0:100::/48", "5f00:0:100::/48"],
+    ["a prefix inside the first", "5f00:0:100::/48", "5f00:0:100:8000::/56"],
+    ["a prefix around the first", "5f00:0:100::/48", "5f00::/32"],
+  ])("refuses a second block with %s", (_what, first, second) => {
+    const st = { node: 16, function: 16, argument: 0 };
+    const text = base({ algorithms: [{ id: 0 }, { id: 128 }], blocks: [{ name: "a", prefix: first, structure: st }, { name: "z", prefix: second, algorithms: [128], structure: st }] });
+    const d = only(diagnosticsOf(text), "blocks.1.prefix");
+    expect(d.code).toBe("plan/block-overlap");
+    expect(d.message).toContain(`block "z" (${second}) overlaps block "a" (${first})`);
+  });
+
+  it("accepts blocks side by side", () => {
+    const st = { node: 16, function: 16, argument: 0 };
+    const text = base({ algorithms: [{ id: 0 }, { id: 128 }], blocks: [{ name: "a", prefix: "5f00:0:100::/48", structure: st }, { name: "z", prefix: "5f00:0:101::/48", algorithms: [128], structure: st }] });
+    expect(loadPlanText(text, "ok.yaml").ok).toBe(true);
   });
 
   it("accepts the same names where they do not share a key", () => {
