@@ -43,6 +43,7 @@ import { capacity } from "./capacity.js";
 import { missingEnd } from "./missing-end.js";
 import { missingEndx } from "./missing-endx.js";
 import { missingVrfSid } from "./missing-vrf-sid.js";
+import { vrfTableShared } from "./vrf-table-shared.js";
 import { blockAggregation } from "./block-aggregation.js";
 
 /** Every rule, in the order they run and are listed. */
@@ -86,6 +87,7 @@ export const RULES = {
   "missing-end": missingEnd,
   "missing-endx": missingEndx,
   "missing-vrf-sid": missingVrfSid,
+  "vrf-table-shared": vrfTableShared,
   "block-aggregation": blockAggregation,
 } as const satisfies Record<string, Rule>;
 
