@@ -13,7 +13,7 @@
  * give, in the same order (tests compare the two on random and damaged locks).
  */
 import { type Hash, createHash } from "node:crypto";
-import { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock.js";
+import { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock-model.js";
 
 /** Thrown inside the reader when the bytes are not a lock it is sure of; caught at its end. */
 const NOT = new Error("not the lock layout");

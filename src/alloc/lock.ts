@@ -6,29 +6,9 @@
 import { createHash } from "node:crypto";
 import type { Diagnostic } from "../plan/diagnostic.js";
 import { readLockFast } from "./lock-fast.js";
+import { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock-model.js";
 
-export const LOCK_SCHEMA_ID = "sidcarve/lock/v1";
-
-/** A value no longer in use; it stays out of circulation until released. */
-export interface RetiredValue {
-  readonly kind: "group" | "node" | "function";
-  /** The space the value lives in: parent group path, place, or `owner|algorithm`. */
-  readonly space: string;
-  readonly value: bigint;
-  /** What held it (group path, node name, SID key). */
-  readonly was: string;
-}
-
-export interface Lock {
-  readonly plan: string;
-  /** Fingerprint of the bit layout (levels and blocks); a change means every locator moves. */
-  readonly layout: string;
-  readonly groups: ReadonlyMap<string, bigint>;
-  readonly nodes: ReadonlyMap<string, { place: string; value: bigint }>;
-  /** owner (node name or `anycast:NAME`) -> SID key -> function value */
-  readonly functions: ReadonlyMap<string, ReadonlyMap<string, bigint>>;
-  readonly retired: readonly RetiredValue[];
-}
+export { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock-model.js";
 
 export function emptyLock(plan: string, layout: string): Lock {
   return { plan, layout, groups: new Map(), nodes: new Map(), functions: new Map(), retired: [] };
@@ -233,9 +213,6 @@ export function parseLockReadable(text: string, file: string, planName: string):
 }
 
 /** Bigints of the small values a lock mostly holds, made once (bigints are values: sharing them changes nothing). */
-const SMALL_VALUES: bigint[] = [];
-const SMALL_LIMIT = 1 << 16;
-
 /**
  * A lock value: "0x" and lower-case hex digits, as serializeLock writes it. A loop over the
  * characters instead of a regular expression and BigInt(text) per value: a large lock holds a
@@ -251,17 +228,6 @@ export function lockValue(s: unknown): bigint {
   }
   if (s.length > 2 + 13) return BigInt(s); // beyond 2^52 a double would round; the digits were checked above
   return smallBigInt(n);
-}
-
-/** The value of a lower-case hex digit's character code (the only digits a lock holds), or -1. */
-export function hexDigit(c: number): number {
-  return c >= 0x30 && c <= 0x39 ? c - 0x30 : c >= 0x61 && c <= 0x66 ? c - 0x57 : -1;
-}
-
-/** BigInt(n) for a safe integer n >= 0, shared for the small values. */
-export function smallBigInt(n: number): bigint {
-  if (n < SMALL_LIMIT) return (SMALL_VALUES[n] ??= BigInt(n));
-  return BigInt(n);
 }
 
 /**
