@@ -19,9 +19,26 @@ for (const stream of [process.stdout, process.stderr]) {
   });
 }
 
+/** Resolves when `stream` wants more (at once when it does already), or when it closes or fails. */
+function drained(stream: NodeJS.WriteStream): Promise<void> {
+  if (!stream.writableNeedDrain) return Promise.resolve();
+  return new Promise((resolve) => {
+    const done = () => {
+      stream.off("drain", done);
+      stream.off("close", done);
+      stream.off("error", done);
+      resolve();
+    };
+    stream.on("drain", done);
+    stream.on("close", done);
+    stream.on("error", done);
+  });
+}
+
 async function main(argv: string[]): Promise<number> {
   const program = buildProgram({
     out: (s) => process.stdout.write(s),
+    drained: () => drained(process.stdout),
     err: (s) => process.stderr.write(s),
     isTty: Boolean(process.stdout.isTTY) && !process.env.NO_COLOR,
     now: new Date(),

@@ -674,6 +674,20 @@ function* chunked<U>(plan: string, chunkBytes: number, units: readonly U[], writ
   if (out.pos > at) yield out.buf.slice(at, out.pos);
 }
 
+/**
+ * UTF-8 byte chunks as text chunks, for writers that take strings (standard output): a chunk
+ * may end inside a character, whose bytes are then held over to the next one.
+ */
+export function* textChunks(chunks: Iterable<Uint8Array>): Generator<string> {
+  const text = new TextDecoder("utf-8", { fatal: true });
+  for (const c of chunks) {
+    const s = text.decode(c, { stream: true });
+    if (s) yield s;
+  }
+  const rest = text.decode();
+  if (rest) yield rest;
+}
+
 /** The whole table as one CSV string. */
 export function tableToCsv(t: SidTable): string {
   return [...csvChunks(t.plan, t.nodes)].join("");

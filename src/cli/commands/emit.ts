@@ -1,6 +1,6 @@
 /** `sidcarve emit PLAN --format csv|json [--out DIR] [--per-node]`: write the per-router SID tables. */
 import { join } from "node:path";
-import { csvChunks, csvPackedChunks } from "../../emit/csv.js";
+import { csvPackedChunks, textChunks } from "../../emit/csv.js";
 import { jsonChunks } from "../../emit/json.js";
 import { safeFileName } from "../../emit/names.js";
 import type { Io } from "../context.js";
@@ -15,13 +15,16 @@ export interface EmitFlags {
   readonly force?: boolean;
 }
 
+/** Bytes per chunk written to standard output (a pipe takes them as they come). */
+const STDOUT_CHUNK = 64 * 1024;
+
 export async function runEmit(planFile: string, flags: EmitFlags, io: Io): Promise<number> {
   if (flags.format !== "csv" && flags.format !== "json") throw new UsageError(`--format ${JSON.stringify(flags.format)} is not allowed; use csv or json`);
   const plan = loadPlanFile(planFile);
   const a = lockedAllocation(plan, lockPathFor(planFile, flags.lock));
   const packed = a.packed;
-  // CSV files are written from the allocation's columns (no SID objects); JSON files from SID
-  // objects made a node at a time; standard output from the table's objects
+  // CSV is written from the allocation's columns (no SID objects), JSON from SID objects made a
+  // node at a time, to files and to standard output alike
   const ids = packed.nodeIdsByName();
   const names = ids.map((id) => packed.nodeNames[id]!);
   const csv = flags.format === "csv";
@@ -34,9 +37,14 @@ export async function runEmit(planFile: string, flags: EmitFlags, io: Io): Promi
   const ext = flags.format;
   if (!flags.out) {
     if (flags.perNode) throw new UsageError("--per-node needs --out DIR (one file per node)");
-    // standard output takes text, a node at a time
-    const t = a.table;
-    for (const c of csv ? csvChunks(t.plan, t.nodes) : jsonChunks(t, t.nodes)) io.out(c);
+    // standard output takes text: CSV bytes from the columns in small chunks, decoded as a stream
+    // (a chunk may end inside a character), JSON from SID objects made a node at a time
+    const chunks = csv ? textChunks(csvPackedChunks(packed, ids, STDOUT_CHUNK)) : jsonChunks(packed, fresh(ids.map((_, k) => k)));
+    for (const c of chunks) {
+      io.out(c);
+      // a pipe to a slower reader: wait for it rather than hold the whole table in memory
+      if (io.drained) await io.drained();
+    }
     return 0;
   }
   if (flags.perNode) {
