@@ -179,6 +179,28 @@ export async function writeAtomicOverlapped(path: string, chunks: Iterable<strin
   moveInto(tmp, path);
 }
 
+/**
+ * Run `task(0) .. task(n - 1)` with at most `limit` of them unfinished at a time, starting them in
+ * order. When one fails, no further task is started; the ones running are waited for, then the
+ * first failure is thrown.
+ */
+export async function eachAtMost(limit: number, n: number, task: (k: number) => Promise<void>): Promise<void> {
+  let next = 0;
+  let failed: { error: unknown } | undefined;
+  const worker = async (): Promise<void> => {
+    while (next < n && !failed) {
+      const k = next++;
+      try {
+        await task(k);
+      } catch (e) {
+        failed ??= { error: e };
+      }
+    }
+  };
+  await Promise.all(Array.from({ length: Math.max(1, Math.min(limit, n)) }, worker));
+  if (failed) throw failed.error;
+}
+
 /** After this long a busy marker is taken to be left over from a run that died (ms). */
 export const BUSY_STALE_MS = 10 * 60 * 1000;
 

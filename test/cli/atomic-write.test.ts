@@ -7,7 +7,7 @@ import { mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from "n
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import { UsageError, writeAtomic, writeAtomicOverlapped } from "../../src/cli/io.js";
+import { UsageError, eachAtMost, writeAtomic, writeAtomicOverlapped } from "../../src/cli/io.js";
 
 const dir = mkdtempSync(join(tmpdir(), "sidcarve-write-"));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -63,5 +63,43 @@ describe("atomic writes", () => {
     await writeAtomicOverlapped(target, ["# sidcarve new\n"], { force: true });
     expect(readFileSync(target, "utf8")).toBe("# sidcarve new\n");
     expect(strays()).toEqual([]);
+  });
+});
+
+describe("eachAtMost", () => {
+  const pause = (ms: number) => new Promise<void>((r) => setTimeout(r, ms));
+
+  it("runs every task, starting them in order, with at most `limit` unfinished", async () => {
+    for (const [limit, n] of [[1, 5], [3, 10], [8, 3], [4, 0]] as const) {
+      let running = 0;
+      let most = 0;
+      const started: number[] = [];
+      await eachAtMost(limit, n, async (k) => {
+        started.push(k);
+        running++;
+        most = Math.max(most, running);
+        await pause((k * 7) % 3);
+        running--;
+      });
+      expect(started).toEqual(Array.from({ length: n }, (_, k) => k));
+      expect(most).toBe(Math.min(limit, n));
+      expect(running).toBe(0);
+    }
+  });
+
+  it("starts nothing after a failure, waits for the running tasks, and throws the first failure", async () => {
+    const started: number[] = [];
+    const finished: number[] = [];
+    const run = eachAtMost(3, 20, async (k) => {
+      started.push(k);
+      await pause(k === 4 ? 1 : 5);
+      if (k === 4) throw new Error("task 4 failed");
+      finished.push(k);
+    });
+    await expect(run).rejects.toThrow("task 4 failed");
+    // 0-2 ran first; 3 and 4 took the places of the first two done (which may be any of them); the
+    // tasks running when 4 failed were waited for, and none started after it
+    expect(started.length).toBeLessThan(20);
+    expect(finished.sort((a, b) => a - b)).toEqual(started.filter((k) => k !== 4).sort((a, b) => a - b));
   });
 });

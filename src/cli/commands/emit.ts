@@ -4,7 +4,7 @@ import { csvPackedChunks, textChunks } from "../../emit/csv.js";
 import { jsonChunks } from "../../emit/json.js";
 import { safeFileName } from "../../emit/names.js";
 import type { Io } from "../context.js";
-import { UsageError, checkWritable, writeAtomicOverlapped } from "../io.js";
+import { UsageError, checkWritable, eachAtMost, writeAtomicOverlapped } from "../io.js";
 import { loadPlanFile, lockPathFor, lockedAllocation } from "../plan-files.js";
 
 export interface EmitFlags {
@@ -17,6 +17,8 @@ export interface EmitFlags {
 
 /** Bytes per chunk written to standard output (a pipe takes them as they come). */
 const STDOUT_CHUNK = 64 * 1024;
+/** Per-node files written at the same time. */
+const PER_NODE_IN_FLIGHT = 8;
 
 export async function runEmit(planFile: string, flags: EmitFlags, io: Io): Promise<number> {
   if (flags.format !== "csv" && flags.format !== "json") throw new UsageError(`--format ${JSON.stringify(flags.format)} is not allowed; use csv or json`);
@@ -51,7 +53,9 @@ export async function runEmit(planFile: string, flags: EmitFlags, io: Io): Promi
     const files = names.map((n) => join(flags.out!, `${safeFileName(n)}.${ext}`));
     // check every target first, so a refusal never leaves half a set written
     checkWritable(files, { force: flags.force });
-    for (let k = 0; k < files.length; k++) await writeAtomicOverlapped(files[k]!, fileChunks([k]), { force: flags.force });
+    // a few files at a time: each one's flush waits for the disk, and the system can flush several
+    // at once (one at a time, 1,000 files took three times as long as one file of them all)
+    await eachAtMost(PER_NODE_IN_FLIGHT, files.length, (k) => writeAtomicOverlapped(files[k]!, fileChunks([k]), { force: flags.force }));
     io.out(`${ids.length} ${ext.toUpperCase()} tables written to ${flags.out}/\n`);
   } else {
     const file = join(flags.out, `${safeFileName(plan.name)}.sids.${ext}`);
