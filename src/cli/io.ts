@@ -2,7 +2,7 @@
  * File input and output for the CLI: reading with located errors, atomic writes (temp file in the
  * same folder, then rename), and the rule that we only overwrite files we wrote ourselves.
  */
-import { closeSync, fsyncSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, statSync, writeSync } from "node:fs";
+import { closeSync, fstatSync, fsyncSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, statSync, writeSync } from "node:fs";
 import { open } from "node:fs/promises";
 import { hostname } from "node:os";
 import { basename, dirname, join } from "node:path";
@@ -46,6 +46,38 @@ export function readBytesIfExists(file: string): Buffer | undefined {
   } catch (e) {
     if ((e as NodeJS.ErrnoException).code === "ENOENT") return undefined;
     throw new UsageError(`${file}: cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`);
+  }
+}
+
+/**
+ * readBytesIfExists, but a file of at least `sharedFrom` bytes is read into shared memory (a
+ * SharedArrayBuffer, which a worker thread can read without a copy).
+ */
+export function readSharedIfExists(file: string, sharedFrom: number): Buffer | undefined {
+  let fd: number;
+  try {
+    fd = openSync(file, "r");
+  } catch (e) {
+    if ((e as NodeJS.ErrnoException).code === "ENOENT") return undefined;
+    throw new UsageError(`${file}: cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`);
+  }
+  try {
+    const size = fstatSync(fd).size;
+    if (size < sharedFrom || size > MAX_INPUT_BYTES) return readFileSync(fd);
+    const b = Buffer.from(new SharedArrayBuffer(size));
+    let at = 0;
+    while (at < size) {
+      const n = readSync(fd, b, at, size - at, null);
+      if (n === 0) break;
+      at += n;
+    }
+    // a file that grew while it was read is read again the plain way
+    if (at === size && readSync(fd, Buffer.alloc(1), 0, 1, null) !== 0) return readFileSync(file);
+    return at === size ? b : b.subarray(0, at);
+  } catch (e) {
+    throw new UsageError(`${file}: cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`);
+  } finally {
+    closeSync(fd);
   }
 }
 

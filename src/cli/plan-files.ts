@@ -3,11 +3,13 @@
  * carrying located diagnostics.
  */
 import { basename, dirname, join } from "node:path";
+import { Worker } from "node:worker_threads";
 import { type Lock, parseLock } from "../alloc/lock.js";
+import type { CompactDigest } from "../alloc/lock-fast.js";
 import { type Allocation, type AllocateOptions, allocate } from "../alloc/allocate.js";
 import { loadPlanBytes } from "../plan/load.js";
 import type { Plan } from "../plan/model.js";
-import { UsageError, readBytesIfExists, readInput } from "./io.js";
+import { UsageError, readBytesIfExists, readInput, readSharedIfExists } from "./io.js";
 
 /** The lock file that belongs to a plan: beside it, `<name>.lock.json`, unless given. */
 export function lockPathFor(planFile: string, explicit?: string): string {
@@ -31,6 +33,54 @@ export function loadLock(plan: Plan, lockFile: string): { lock: Lock | undefined
   return { lock: r.lock, bytes };
 }
 
+/** Locks at least this large are hashed in a worker thread while the plan loads; a smaller one is hashed sooner than a thread starts. */
+export const LOCK_WORKER_BYTES = 4 * 1024 * 1024;
+
+/**
+ * Read a plan and its lock, hashing a large lock's bytes (the digest check, compactDigest) in a
+ * worker thread while the plan loads on this one. Same answers and the same errors, in the same
+ * order, as loadPlanFile then loadLock: a lock that cannot be read is reported after the plan.
+ * `workerBytes`: the size from which the worker is used (Infinity: never).
+ */
+export async function loadPlanAndLock(planFile: string, lockFile: string, workerBytes = LOCK_WORKER_BYTES): Promise<{ plan: Plan; lock: Lock | undefined; bytes: Buffer | undefined }> {
+  let bytes: Buffer | undefined;
+  let unreadable: unknown;
+  try {
+    bytes = readSharedIfExists(lockFile, workerBytes);
+  } catch (e) {
+    unreadable = e;
+  }
+  const hashing = bytes !== undefined && bytes.length >= workerBytes && bytes.buffer instanceof SharedArrayBuffer ? digestInWorker(bytes) : undefined;
+  try {
+    const plan = loadPlanFile(planFile);
+    if (unreadable !== undefined) throw unreadable;
+    if (bytes === undefined) return { plan, lock: undefined, bytes };
+    const known = hashing ? await hashing.digest : undefined;
+    const r = parseLock(bytes, lockFile, plan.name, known);
+    if (!r.ok) throw new UsageError(`${lockFile}: the lock cannot be used`, r.diagnostics);
+    return { plan, lock: r.lock, bytes };
+  } finally {
+    hashing?.stop();
+  }
+}
+
+/** compactDigest of `bytes` (in shared memory) in a worker thread; undefined when the thread fails or cannot start. */
+export function digestInWorker(bytes: Buffer): { digest: Promise<CompactDigest | undefined>; stop(): void } {
+  let worker: Worker | undefined;
+  const digest = new Promise<CompactDigest | undefined>((resolve) => {
+    try {
+      worker = new Worker(new URL("./lock-digest-worker.js", import.meta.url), { workerData: { buffer: bytes.buffer, length: bytes.length } });
+    } catch {
+      resolve(undefined);
+      return;
+    }
+    worker.once("message", (m: CompactDigest | null) => resolve(m ?? undefined));
+    worker.once("error", () => resolve(undefined));
+    worker.once("exit", () => resolve(undefined));
+  });
+  return { digest, stop: () => void worker?.terminate() };
+}
+
 /** Allocate, turning refusals into a UsageError that lists every move. */
 export function allocateOrFail(plan: Plan, lock: Lock | undefined, options: AllocateOptions): Allocation {
   const r = allocate(plan, lock, options);
@@ -42,9 +92,18 @@ export function allocateOrFail(plan: Plan, lock: Lock | undefined, options: Allo
   throw new UsageError(`${plan.file}: allocation failed`, r.diagnostics);
 }
 
+/** For emit/decode/diff: the plan and the allocation already in its lock (see lockedAllocation), the lock read beside the plan. */
+export async function loadLockedAllocation(planFile: string, lockFile: string): Promise<{ plan: Plan; allocation: Allocation }> {
+  const { plan, lock } = await loadPlanAndLock(planFile, lockFile);
+  return { plan, allocation: allocationInLock(plan, lock, lockFile) };
+}
+
 /** For emit/decode: the allocation must already be in the lock (nothing new, nothing retired). */
 export function lockedAllocation(plan: Plan, lockFile: string): Allocation {
-  const { lock } = loadLock(plan, lockFile);
+  return allocationInLock(plan, loadLock(plan, lockFile).lock, lockFile);
+}
+
+function allocationInLock(plan: Plan, lock: Lock | undefined, lockFile: string): Allocation {
   if (!lock) throw new UsageError(`${lockFile}: no lock yet; run \`sidcarve allocate ${plan.file}\` first so that every value is recorded`);
   const a = allocateOrFail(plan, lock, {});
   if (a.added > 0 || a.retiredNow.length > 0 || a.lock.groups.size !== lock.groups.size || a.lock.nodes.size !== lock.nodes.size) {

@@ -53,7 +53,7 @@ export function buildProgram(io: Io): Command & { exitCode?: number } {
     .requiredOption("--plan <plan>", "plan file")
     .option("--lock <file>", "lock file")
     .addOption(new Option("--format <format>", "output format").choices(["text", "json"]).default("text"))
-    .action((addresses: string[], flags) => done(runDecode(addresses, flags, io)));
+    .action(async (addresses: string[], flags) => done(await runDecode(addresses, flags, io)));
 
   program
     .command("lint")
@@ -65,7 +65,7 @@ export function buildProgram(io: Io): Command & { exitCode?: number } {
     .addOption(new Option("--fail-on <severity>", "exit 1 when a finding at or above this severity remains").choices(["error", "warning", "info"]).default("error"))
     .option("--report <file>", "write the report to a file (atomically) instead of standard output")
     .option("--force", "with --report: overwrite a file that sidcarve did not write")
-    .action((input: string, flags) => done(runLint(input, flags, io)));
+    .action(async (input: string, flags) => done(await runLint(input, flags, io)));
 
   program
     .command("rules")

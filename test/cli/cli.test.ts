@@ -6,7 +6,7 @@
  * test building) can never hand these tests a half-written module.
  */
 import { execFileSync, spawnSync } from "node:child_process";
-import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, relative, resolve, sep } from "node:path";
 import { Ajv2020 } from "ajv/dist/2020.js";
@@ -339,5 +339,67 @@ describe("published schemas", () => {
     for (const [file, schema] of Object.entries(schemaFiles)) {
       expect(JSON.parse(readFileSync(join(ROOT, "schemas", file), "utf8")), file).toEqual(JSON.parse(JSON.stringify(schema)));
     }
+  });
+});
+
+describe("plan and lock read together (a large lock is hashed in a worker thread while the plan loads)", () => {
+  // the built modules: a worker thread runs the built JavaScript, not the TypeScript sources
+  const built = async () => ({
+    files: (await import(join(BUILD, "dist", "cli", "plan-files.js"))) as typeof import("../../src/cli/plan-files.js"),
+    lock: (await import(join(BUILD, "dist", "alloc", "lock.js"))) as typeof import("../../src/alloc/lock.js"),
+    fast: (await import(join(BUILD, "dist", "alloc", "lock-fast.js"))) as typeof import("../../src/alloc/lock-fast.js"),
+  });
+
+  it("the worker's digest is the one the reader computes itself", async () => {
+    const { files, fast } = await built();
+    const { dir, plan } = metroIn();
+    ok(cli(dir, "allocate", plan));
+    const bytes = readFileSync(join(dir, "harbourline-metro.lock.json"));
+    const shared = Buffer.from(new SharedArrayBuffer(bytes.length));
+    bytes.copy(shared);
+    const w = files.digestInWorker(shared);
+    const got = await w.digest;
+    w.stop();
+    expect(got).toEqual(fast.compactDigest(bytes));
+    expect(got?.digest).toBe(JSON.parse(bytes.toString("utf8")).digest);
+  });
+
+  it("reads the same lock with the worker as without, and refuses a damaged one the same way", async () => {
+    const { files, lock } = await built();
+    const { dir, plan } = metroIn();
+    ok(cli(dir, "allocate", plan));
+    const lockFile = join(dir, "harbourline-metro.lock.json");
+    const withWorker = await files.loadPlanAndLock(plan, lockFile, 0);
+    const without = await files.loadPlanAndLock(plan, lockFile, Infinity);
+    expect(withWorker.lock).toBeDefined();
+    expect(lock.serializeLock(withWorker.lock!)).toBe(lock.serializeLock(without.lock!));
+    expect(withWorker.bytes?.equals(readFileSync(lockFile))).toBe(true);
+    // one value changed by hand: the digest no longer matches, with or without the worker
+    writeFileSync(lockFile, readFileSync(lockFile, "utf8").replace(/"0x1"/, '"0x2"'));
+    const refusal = async (workerBytes: number) =>
+      files.loadPlanAndLock(plan, lockFile, workerBytes).then(
+        () => "read",
+        (e: { diagnostics?: readonly { code: string }[] }) => (e.diagnostics ?? []).map((d) => d.code).join(","),
+      );
+    expect(await refusal(0)).toBe("lock/digest");
+    expect(await refusal(Infinity)).toBe("lock/digest");
+  });
+
+  it("reports a broken plan before a lock that cannot be read, as the plain reading does", async () => {
+    const { files } = await built();
+    const { dir, plan } = metroIn((t) => t.replace(/^plan: .*$/m, "plan: 12"));
+    const lockFolder = join(dir, "folder.lock.json");
+    mkdirSync(lockFolder);
+    const message = await files.loadPlanAndLock(plan, lockFolder, 0).then(
+      () => "read",
+      (e: Error) => e.message,
+    );
+    expect(message).toContain("the plan has");
+    const { plan: good } = metroIn();
+    const unreadable = await files.loadPlanAndLock(good, lockFolder, 0).then(
+      () => "read",
+      (e: Error) => e.message,
+    );
+    expect(unreadable).toBe(`${lockFolder}: cannot be read (EISDIR)`);
   });
 });

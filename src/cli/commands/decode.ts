@@ -3,7 +3,7 @@ import { Decoder } from "../../alloc/decode.js";
 import { parseAddr } from "../../net/text.js";
 import type { Io } from "../context.js";
 import { UsageError } from "../io.js";
-import { loadPlanFile, lockPathFor, lockedAllocation } from "../plan-files.js";
+import { loadLockedAllocation, lockPathFor } from "../plan-files.js";
 
 export interface DecodeFlags {
   readonly plan: string;
@@ -11,14 +11,14 @@ export interface DecodeFlags {
   readonly format?: string;
 }
 
-export function runDecode(addresses: readonly string[], flags: DecodeFlags, io: Io): number {
+export async function runDecode(addresses: readonly string[], flags: DecodeFlags, io: Io): Promise<number> {
   const parsed = addresses.map((a) => {
     const r = parseAddr(a);
     if (!r.ok) throw new UsageError(r.reason);
     return r.value;
   });
-  const plan = loadPlanFile(flags.plan);
-  const decoder = new Decoder(lockedAllocation(plan, lockPathFor(flags.plan, flags.lock)));
+  const { allocation } = await loadLockedAllocation(flags.plan, lockPathFor(flags.plan, flags.lock));
+  const decoder = new Decoder(allocation);
   const results = parsed.map((a) => decoder.decode(a));
   if (flags.format === "json") {
     io.out(JSON.stringify(results, null, 2) + "\n");

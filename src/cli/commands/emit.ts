@@ -5,7 +5,7 @@ import { jsonChunks } from "../../emit/json.js";
 import { safeFileName } from "../../emit/names.js";
 import type { Io } from "../context.js";
 import { UsageError, checkWritable, eachAtMost, writeAtomicOverlapped } from "../io.js";
-import { loadPlanFile, lockPathFor, lockedAllocation } from "../plan-files.js";
+import { loadLockedAllocation, lockPathFor } from "../plan-files.js";
 
 export interface EmitFlags {
   readonly lock?: string;
@@ -22,8 +22,7 @@ const PER_NODE_IN_FLIGHT = 8;
 
 export async function runEmit(planFile: string, flags: EmitFlags, io: Io): Promise<number> {
   if (flags.format !== "csv" && flags.format !== "json") throw new UsageError(`--format ${JSON.stringify(flags.format)} is not allowed; use csv or json`);
-  const plan = loadPlanFile(planFile);
-  const a = lockedAllocation(plan, lockPathFor(planFile, flags.lock));
+  const { allocation: a } = await loadLockedAllocation(planFile, lockPathFor(planFile, flags.lock));
   const packed = a.packed;
   // CSV is written from the allocation's columns (no SID objects), JSON from SID objects made a
   // node at a time, to files and to standard output alike
@@ -58,7 +57,7 @@ export async function runEmit(planFile: string, flags: EmitFlags, io: Io): Promi
     await eachAtMost(PER_NODE_IN_FLIGHT, files.length, (k) => writeAtomicOverlapped(files[k]!, fileChunks([k]), { force: flags.force }));
     io.out(`${ids.length} ${ext.toUpperCase()} tables written to ${flags.out}/\n`);
   } else {
-    const file = join(flags.out, `${safeFileName(plan.name)}.sids.${ext}`);
+    const file = join(flags.out, `${safeFileName(a.plan.name)}.sids.${ext}`);
     await writeAtomicOverlapped(file, fileChunks(ids.map((_, k) => k)), { force: flags.force });
     io.out(`SID table written to ${file}\n`);
   }

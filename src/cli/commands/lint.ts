@@ -12,7 +12,7 @@ import { readCsvPacked } from "../../sid/packed.js";
 import { readJsonTable } from "../../sid/table-read.js";
 import type { Io } from "../context.js";
 import { UsageError, readInput, writeAtomic } from "../io.js";
-import { allocateOrFail, loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
+import { allocateOrFail, loadPlanAndLock, loadPlanFile, lockPathFor } from "../plan-files.js";
 import { VERSION } from "../version.js";
 
 export interface LintFlags {
@@ -35,7 +35,7 @@ export function inputKind(file: string, bytes: Uint8Array): "csv" | "json-table"
   return "plan";
 }
 
-export function runLint(input: string, flags: LintFlags, io: Io): number {
+export async function runLint(input: string, flags: LintFlags, io: Io): Promise<number> {
   const failOn = (flags.failOn ?? "error") as FindingSeverity;
   const today = isoDay(io.now);
   // `let`, so that a large CSV file's bytes can be let go once the table is in columns
@@ -44,8 +44,8 @@ export function runLint(input: string, flags: LintFlags, io: Io): number {
   let result: LintResult;
   if (kind === "plan") {
     if (flags.plan) throw new UsageError(`${input} is a plan; --plan is only for SID tables`);
-    const plan = loadPlanFile(input);
-    const { lock } = loadLock(plan, lockPathFor(input, flags.lock));
+    bytes = undefined;
+    const { plan, lock } = await loadPlanAndLock(input, lockPathFor(input, flags.lock));
     result = lintAllocation(allocateOrFail(plan, lock, {}), today);
   } else if (kind === "csv") {
     // CSV tables are read straight from the bytes into columns (same result as readCsvTable on
