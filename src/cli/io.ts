@@ -41,12 +41,7 @@ export function readInput(file: string): Uint8Array {
 
 /** Read a file's bytes if it exists, else undefined. */
 export function readBytesIfExists(file: string): Buffer | undefined {
-  try {
-    return readFileSync(file);
-  } catch (e) {
-    if ((e as NodeJS.ErrnoException).code === "ENOENT") return undefined;
-    throw new UsageError(`${file}: cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`);
-  }
+  return readSharedIfExists(file, Infinity);
 }
 
 /**
@@ -66,14 +61,8 @@ export function readSharedIfExists(file: string, sharedFrom: number): Buffer | u
     if (size < sharedFrom || size > MAX_INPUT_BYTES) return readFileSync(fd);
     const b = Buffer.from(new SharedArrayBuffer(size));
     let at = 0;
-    while (at < size) {
-      const n = readSync(fd, b, at, size - at, null);
-      if (n === 0) break;
-      at += n;
-    }
-    // a file that grew while it was read is read again the plain way
-    if (at === size && readSync(fd, Buffer.alloc(1), 0, 1, null) !== 0) return readFileSync(file);
-    return at === size ? b : b.subarray(0, at);
+    for (let n = 1; at < size && n > 0; at += n) n = readSync(fd, b, at, size - at, null);
+    return b.subarray(0, at);
   } catch (e) {
     throw new UsageError(`${file}: cannot be read (${(e as NodeJS.ErrnoException).code ?? "error"})`);
   } finally {

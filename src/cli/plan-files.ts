@@ -92,7 +92,7 @@ export function allocateOrFail(plan: Plan, lock: Lock | undefined, options: Allo
   throw new UsageError(`${plan.file}: allocation failed`, r.diagnostics);
 }
 
-/** For emit/decode/diff: the plan and the allocation already in its lock (see lockedAllocation), the lock read beside the plan. */
+/** For emit and decode: the plan and the allocation already in its lock (see lockedAllocation), the lock read beside the plan. */
 export async function loadLockedAllocation(planFile: string, lockFile: string): Promise<{ plan: Plan; allocation: Allocation }> {
   const { plan, lock } = await loadPlanAndLock(planFile, lockFile);
   return { plan, allocation: allocationInLock(plan, lock, lockFile) };
