@@ -12,6 +12,7 @@ import { type Diagnostic, quote } from "../plan/diagnostic.js";
 import type { Block, Layout, Level, Plan, PlanNode, PoolKind, ValueRange } from "../plan/model.js";
 import { POOL_KINDS } from "../plan/model.js";
 import { inRanges, levelCapacity, rangeSize } from "../plan/normalize.js";
+import { LockedFunctions, keyHash } from "./lock-functions.js";
 import { type Lock, type RetiredValue, emptyLock } from "./lock.js";
 import { bitOrder, nthValue } from "./order.js";
 import { type SidRow, SidRowSink, setSidWords } from "./sid-rows.js";
@@ -282,9 +283,13 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     const rows: SidRow[] = [];
     const hv = nodeValues.get(owner)!;
     const lockedFns = lock.functions.get(owner) ?? new Map<string, bigint>();
-    // the owner's functions for the new lock, in SID order; when they are the locked ones to the
-    // letter (a run against an up-to-date lock), the locked map itself is kept
-    const outKeys: string[] = [];
+    // the fast reader's functions answer a spec's key and algorithm without a key string
+    const fast = lockedFns instanceof LockedFunctions ? lockedFns : undefined;
+    // the owner's functions for the new lock, in SID order (each spec and algorithm; the keys
+    // are made only when needed); when they are the locked ones to the letter (a run against an
+    // up-to-date lock), the locked map itself is kept
+    const outSpecs: SidSpec[] = [];
+    const outAlgos: number[] = [];
     const outValues: bigint[] = [];
     let sameAsLocked = true;
     let lockedPerAlgo: Map<number, number> | undefined;
@@ -308,18 +313,19 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       );
       const space = `${owner}|${algo}`;
       const taken = new Set<bigint>(retiredIn("function", space));
-      // each spec's lock key (made once per spec and algorithm: the loops below look it up several times)
-      const keys = specs.map((s) => lockKey(s, algo));
+      // each spec's lock key, made when first asked for (made once per spec and algorithm)
+      let keys: string[] | undefined;
+      const keyOf = (si: number): string => (keys ??= specs.map((s) => lockKey(s, algo)))[si]!;
       // Values of this locator's SIDs that leave the plan in this run are retired below: keep them
       // out of pass 2 too, or a new SID would take a value the lock also lists as retired.
       // When every locked key of this algorithm is one of this locator's keys, none leaves: count
       // instead of building a set (the usual case, and a million SIDs deep).
       // each spec's locked value, looked up once
-      const lockedValues = keys.map((k) => lockedFns.get(k));
+      const lockedValues = fast ? specs.map((s) => fast.lookup(algo, s.key, (s.keyHash ??= keyHash(s.key)))) : specs.map((_, si) => lockedFns.get(keyOf(si)));
       let hits = 0;
       for (const v of lockedValues) if (v !== undefined) hits++;
-      if (hits < ((lockedPerAlgo ??= lockedCounts(lockedFns)).get(algo) ?? 0)) {
-        const specKeys = new Set(keys);
+      if (hits < ((lockedPerAlgo ??= fast ? fast.countsByAlgorithm() : lockedCounts(lockedFns)).get(algo) ?? 0)) {
+        const specKeys = new Set(specs.map((_, si) => keyOf(si)));
         const algoPrefix = `${algo}|`;
         for (const [k, v] of lockedFns) if (!specKeys.has(k) && k.startsWith(algoPrefix)) taken.add(v);
       }
@@ -353,7 +359,6 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const chosen: (bigint | undefined)[] = new Array<bigint | undefined>(specs.length).fill(undefined);
       for (let si = 0; si < specs.length; si++) {
         const s = specs[si]!;
-        const key = keys[si]!;
         if (s.noFunction) continue;
         const locked = lockedValues[si];
         if (s.pinned !== undefined) {
@@ -369,7 +374,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
           if (locked !== undefined && locked !== s.pinned) {
             moves.push({ what: `${owner} ${s.behavior} ${s.key}`, from: hex(locked), to: hex(s.pinned), reason: "its pinned function value changed" });
             if (!allow) continue;
-            retiredNow.push({ kind: "function", space, value: locked, was: key });
+            retiredNow.push({ kind: "function", space, value: locked, was: keyOf(si) });
             taken.add(locked);
           }
           if (taken.has(s.pinned)) {
@@ -383,7 +388,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
           if (!inRanges(locked, pool) || !fits(locked)) {
             moves.push({ what: `${owner} ${s.behavior} ${s.key}`, from: hex(locked), to: "(a new value)", reason: `${hex(locked)} is no longer in the ${s.pool} pool` });
             if (!allow) continue;
-            retiredNow.push({ kind: "function", space, value: locked, was: key });
+            retiredNow.push({ kind: "function", space, value: locked, was: keyOf(si) });
             taken.add(locked);
             continue;
           }
@@ -463,11 +468,11 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       // SIDs
       for (let si = 0; si < specs.length; si++) {
         const s = specs[si]!;
-        const key = keys[si]!;
         const fn = s.noFunction ? 0n : chosen[si];
         if (fn === undefined) continue;
         if (!s.noFunction) {
-          outKeys.push(key);
+          outSpecs.push(s);
+          outAlgos.push(algo);
           outValues.push(fn);
           if (sameAsLocked && lockedValues[si] !== fn) sameAsLocked = false;
         }
@@ -477,10 +482,10 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       }
     }
     let outFns: ReadonlyMap<string, bigint>;
-    if (sameAsLocked && outKeys.length === lockedFns.size) outFns = lockedFns;
+    if (sameAsLocked && outSpecs.length === lockedFns.size) outFns = lockedFns;
     else {
       const m = new Map<string, bigint>();
-      for (let i = 0; i < outKeys.length; i++) m.set(outKeys[i]!, outValues[i]!);
+      for (let i = 0; i < outSpecs.length; i++) m.set(lockKey(outSpecs[i]!, outAlgos[i]!), outValues[i]!);
       outFns = m;
     }
     if (outFns.size > 0) functionsOut.set(owner, outFns);
@@ -703,11 +708,11 @@ function lockedCounts(fns: ReadonlyMap<string, bigint>): Map<number, number> {
 
 /**
  * The key of a SID in the lock: `algorithm|spec key`. A spec of one algorithm carries it, made
- * when the spec is; the End specs, shared by every node and algorithm, keep theirs per
+ * when first asked for (against an up-to-date lock read by the fast reader, never); the End specs, shared by every node and algorithm, keep theirs per
  * algorithm. (Not a WeakMap over a million specs: its entries cost the garbage collector dearly.)
  */
 function lockKey(s: SidSpec, algo: number): string {
-  if (s.lockKey !== undefined && s.algorithm === algo) return s.lockKey;
+  if (s.algorithm === algo) return (s.lockKey ??= flatKey(algo, s.key));
   const byAlgo = (s.lockKeys ??= []);
   return (byAlgo[algo] ??= flatKey(algo, s.key));
 }
@@ -732,8 +737,10 @@ interface SidSpec {
   readonly noFunction: boolean;
   readonly context: SidContext;
   readonly at: (string | number)[];
-  /** `algorithm|key` when the spec has one algorithm (see lockKey). */
+  /** `algorithm|key` when the spec has one algorithm (see lockKey), made when first asked for. */
   lockKey?: string;
+  /** keyHash(key), for the fast reader's functions (LockedFunctions.lookup). */
+  keyHash?: number;
   /** lockKey's per-algorithm keys for specs of every algorithm. */
   lockKeys?: string[];
   /** shapeOf's answer for the last layout it was asked about. */
@@ -772,7 +779,6 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
   const all: SidSpec[] = [...endSpecs(plan, 0)];
   // a spec may be shared by several nodes (a VRF's PEs); its lock key is the same for all of them
   const add = (node: string, s: SidSpec) => {
-    if (s.algorithm !== undefined) s.lockKey ??= flatKey(s.algorithm, s.key);
     if (s.rowId === undefined) {
       s.rowId = all.length;
       all.push(s);

@@ -13,6 +13,7 @@
  * give, in the same order (tests compare the two on random and damaged locks).
  */
 import { type Hash, createHash } from "node:crypto";
+import { FunctionStore, LockedFunctions } from "./lock-functions.js";
 import { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock-model.js";
 
 /** Thrown inside the reader when the bytes are not a lock it is sure of; caught at its end. */
@@ -128,8 +129,14 @@ export function readLockFast(bytes: Uint8Array, known?: CompactDigest): Lock | u
     if (escaped) return JSON.parse(b.toString("utf8", open, end + 1)) as string;
     return plain ? latin1(b, open + 1, end) : b.toString("utf8", open + 1, end);
   };
-  /** A lock value `"0x..."` read from the bytes (lockValue's rules: lower-case hex digits). */
-  const hexValue = (): bigint => {
+  /** Set by hexNumber when the value has more than 13 hex digits. */
+  let bigValue: bigint | undefined;
+  /**
+   * A lock value `"0x..."` read from the bytes (lockValue's rules: lower-case hex digits): the
+   * value as a number when it has at most 13 hex digits (52 bits, exact), else -1 and the value
+   * in `bigValue`.
+   */
+  const hexNumber = (): number => {
     ws();
     if (b[i] !== QUOTE || b[i + 1] !== 0x30 || b[i + 2] !== 0x78) fail();
     const start = i + 1;
@@ -147,8 +154,15 @@ export function readLockFast(bytes: Uint8Array, known?: CompactDigest): Lock | u
     const digits = i - start - 2;
     i++;
     if (digits === 0) fail();
-    if (digits > 13) return BigInt(latin1(b, start, i - 1));
-    return smallBigInt(v);
+    if (digits > 13) {
+      bigValue = BigInt(latin1(b, start, i - 1));
+      return -1;
+    }
+    return v;
+  };
+  const hexValue = (): bigint => {
+    const v = hexNumber();
+    return v >= 0 ? smallBigInt(v) : bigValue!;
   };
   const field = (name: string): void => {
     if (str() !== name) fail();
@@ -202,10 +216,54 @@ export function readLockFast(bytes: Uint8Array, known?: CompactDigest): Lock | u
     });
     nextField("functions");
     const functions = new Map<string, Map<string, bigint>>();
+    const store = new FunctionStore(b);
     members((owner) => {
-      const m = new Map<string, bigint>();
-      members((k) => m.set(k, hexValue()));
-      functions.set(owner, m);
+      const from = store.count;
+      let plain = true;
+      punct(0x7b);
+      ws();
+      if (b[i] === 0x7d) i++;
+      else
+        for (;;) {
+          // the key: `algorithm|rest` is plain when the algorithm is 0..999 in decimal without
+          // leading zeros and the rest is printable ASCII without escapes
+          ws();
+          if (b[i] !== QUOTE) fail();
+          const keyStart = ++i;
+          let algo = 0;
+          while (i < n && b[i]! >= 0x30 && b[i]! <= 0x39) algo = algo * 10 + (b[i++]! - 0x30);
+          const digits = i - keyStart;
+          let rest = keyStart;
+          if (digits > 0 && digits <= 3 && (digits === 1 || b[keyStart] !== 0x30) && b[i] === 0x7c) rest = ++i;
+          else plain = false;
+          for (;;) {
+            if (i >= n) fail();
+            const c = b[i]!;
+            if (c === QUOTE) break;
+            if (c < 0x20) fail();
+            i++;
+            if (c === BACKSLASH) {
+              i++;
+              plain = false;
+            } else if (c >= 0x80) plain = false;
+          }
+          const end = i++;
+          punct(0x3a);
+          const v = hexNumber();
+          store.push(keyStart, rest, end, algo, v, v < 0 ? bigValue : undefined);
+          ws();
+          const c = b[i++];
+          if (c === 0x7d) break;
+          if (c !== 0x2c) fail();
+        }
+      const to = store.count;
+      if (plain && store.index(from, to)) functions.set(owner, new LockedFunctions(store, from, to));
+      else {
+        // an owner with an unusual key, or a key twice: an ordinary Map (the last value of a key wins, as in JSON.parse)
+        const m = new Map<string, bigint>();
+        for (let e = from; e < to; e++) m.set(store.keyAt(e), store.valueAt(e));
+        functions.set(owner, m);
+      }
     });
     nextField("retired");
     const retired: RetiredValue[] = [];
