@@ -58,40 +58,8 @@ function hashCompact(hash: Hash, b: Buffer, end: number): void {
   hash.update(out.subarray(0, o));
 }
 
-/** The digest a lock's bytes should carry, and where the digest member begins (the hash covers the compact bytes before it). */
-export interface CompactDigest {
-  /** Offset of the `,` that opens the digest member. */
-  readonly at: number;
-  /** `sha256:` and the hex digest of the compact bytes before `at`, closed with `}`. */
-  readonly digest: string;
-}
-
-/**
- * The digest of a lock's bytes as readLockFast computes it, found without parsing: the digest
- * member is the last one, so its `,` is the last before the last `"digest"`. Meant to run beside
- * the reader (in a worker thread, while the plan loads); the reader uses the answer only when it
- * finds its own digest member at the same place, so a wrong guess here costs only the time.
- */
-export function compactDigest(bytes: Uint8Array): CompactDigest | undefined {
-  const b = Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  let at = b.lastIndexOf('"digest"');
-  if (at < 0) return undefined;
-  while (at > 0) {
-    const c = b[--at]!;
-    if (c === 0x2c) break;
-    if (c !== 0x20 && c !== 0x0a && c !== 0x0d && c !== 0x09) return undefined;
-  }
-  if (b[at] !== 0x2c) return undefined;
-  const hash = createHash("sha256");
-  hashCompact(hash, b, at);
-  return { at, digest: "sha256:" + hash.update("}").digest("hex") };
-}
-
-/**
- * The lock in `bytes`, or undefined when the fast reader is not sure (see above). `known`: the
- * answer of compactDigest for these bytes, computed elsewhere; used only when its place matches.
- */
-export function readLockFast(bytes: Uint8Array, known?: CompactDigest): Lock | undefined {
+/** The lock in `bytes`, or undefined when the fast reader is not sure (see above). */
+export function readLockFast(bytes: Uint8Array): Lock | undefined {
   const b = Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const n = b.length;
   let i = 0;
@@ -299,14 +267,9 @@ export function readLockFast(bytes: Uint8Array, known?: CompactDigest): Lock | u
     punct(0x7d);
     ws();
     if (i !== n) fail();
-    let expected: string;
-    if (known !== undefined && known.at === digestAt) expected = known.digest;
-    else {
-      const hash = createHash("sha256");
-      hashCompact(hash, b, digestAt);
-      expected = "sha256:" + hash.update("}").digest("hex");
-    }
-    if (digest !== expected) return undefined;
+    const hash = createHash("sha256");
+    hashCompact(hash, b, digestAt);
+    if (digest !== "sha256:" + hash.update("}").digest("hex")) return undefined;
     return { plan, layout, groups, nodes, functions, retired };
   } catch (e) {
     if (e === NOT) return undefined;

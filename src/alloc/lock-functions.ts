@@ -27,6 +27,20 @@ export function keyHashBytes(b: Uint8Array, start: number, end: number): number 
   return h | 0;
 }
 
+/** A FunctionStore's columns (see FunctionStore.parts). */
+export interface StoreParts {
+  readonly count: number;
+  readonly keyStart: Int32Array<ArrayBuffer>;
+  readonly rest: Int32Array<ArrayBuffer>;
+  readonly end: Int32Array<ArrayBuffer>;
+  readonly algo: Int32Array<ArrayBuffer>;
+  readonly hash: Int32Array<ArrayBuffer>;
+  readonly value: Float64Array<ArrayBuffer>;
+  readonly ord: Int32Array<ArrayBuffer>;
+  readonly ordHash: Int32Array<ArrayBuffer>;
+  readonly big: Map<number, bigint>;
+}
+
 /**
  * Every plain function entry of a lock: where its key's rest (after `algorithm|`) lies in the
  * bytes, its algorithm, the hash of the rest and its value (values of more than 53 bits aside).
@@ -45,9 +59,32 @@ export class FunctionStore {
   /** Entry ids of each owner's range in hash order, and their hashes. */
   private ord = new Int32Array(1024);
   private ordHash = new Int32Array(1024);
-  private readonly big = new Map<number, bigint>();
+  private big = new Map<number, bigint>();
 
   constructor(readonly bytes: Buffer) {}
+
+  /** The store's columns, to be sent to another thread (the bytes are not among them: they are shared, or sent apart). */
+  parts(): StoreParts {
+    const n = this.n;
+    const cut = <T extends Int32Array | Float64Array>(a: T): T => a.slice(0, n) as T;
+    return { count: n, keyStart: cut(this.keyStart), rest: cut(this.rest), end: cut(this.end), algo: cut(this.algo), hash: cut(this.hash), value: cut(this.value), ord: cut(this.ord), ordHash: cut(this.ordHash), big: this.big };
+  }
+
+  /** A store over `bytes` from the columns parts() gave for the same bytes. */
+  static fromParts(bytes: Buffer, p: StoreParts): FunctionStore {
+    const s = new FunctionStore(bytes);
+    s.n = p.count;
+    s.keyStart = p.keyStart;
+    s.rest = p.rest;
+    s.end = p.end;
+    s.algo = p.algo;
+    s.hash = p.hash;
+    s.value = p.value;
+    s.ord = p.ord;
+    s.ordHash = p.ordHash;
+    s.big = p.big;
+    return s;
+  }
 
   get count(): number {
     return this.n;
@@ -177,9 +214,11 @@ export class LockedFunctions extends Map<string, bigint> {
   private filled = false;
 
   constructor(
-    private readonly store: FunctionStore,
-    private readonly from: number,
-    private readonly to: number,
+    /** The entries' store, shared by every owner of one lock. */
+    readonly store: FunctionStore,
+    /** The owner's entries are [from, to) of the store. */
+    readonly from: number,
+    readonly to: number,
   ) {
     super();
   }

@@ -5,7 +5,7 @@
  */
 import { createHash } from "node:crypto";
 import type { Diagnostic } from "../plan/diagnostic.js";
-import { type CompactDigest, readLockFast } from "./lock-fast.js";
+import { readLockFast } from "./lock-fast.js";
 import { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock-model.js";
 
 export { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock-model.js";
@@ -162,13 +162,12 @@ export type LockRead = { ok: true; lock: Lock } | { ok: false; diagnostics: Diag
  * Read a lock, from its text or its bytes (UTF-8). Problems — not JSON, truncated, wrong schema, a
  * digest that does not match (hand-edited), or a lock of another plan — are diagnostics; the
  * caller must then write nothing. An intact lock is read by the fast reader (lock-fast.ts);
- * anything it is not sure of is read by parseLockReadable, which is the reference. `known`:
- * compactDigest of these same bytes when it was computed beside (the CLI hashes in a worker while
- * the plan loads); it spares the fast reader its own pass.
+ * anything it is not sure of is read by parseLockReadable, which is the reference. `fast`: the
+ * fast reader's answer for these same bytes when it was found elsewhere (the CLI reads a large
+ * lock in a worker thread while the plan loads).
  */
-export function parseLock(input: string | Uint8Array, file: string, planName: string, known?: CompactDigest): LockRead {
-  const bytes = typeof input === "string" ? Buffer.from(input, "utf8") : input;
-  const lock = readLockFast(bytes, known);
+export function parseLock(input: string | Uint8Array, file: string, planName: string, fast?: { readonly lock: Lock | undefined }): LockRead {
+  const lock = fast ? fast.lock : readLockFast(typeof input === "string" ? Buffer.from(input, "utf8") : input);
   if (lock !== undefined && lock.plan === planName) return { ok: true, lock };
   const text = typeof input === "string" ? input : Buffer.from(input.buffer, input.byteOffset, input.byteLength).toString("utf8");
   return parseLockReadable(text, file, planName);

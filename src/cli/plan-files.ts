@@ -5,7 +5,7 @@
 import { basename, dirname, join } from "node:path";
 import { Worker } from "node:worker_threads";
 import { type Lock, parseLock } from "../alloc/lock.js";
-import type { CompactDigest } from "../alloc/lock-fast.js";
+import { type LockParts, lockFromParts } from "../alloc/lock-parts.js";
 import { type Allocation, type AllocateOptions, allocate } from "../alloc/allocate.js";
 import { loadPlanBytes } from "../plan/load.js";
 import type { Plan } from "../plan/model.js";
@@ -33,14 +33,14 @@ export function loadLock(plan: Plan, lockFile: string): { lock: Lock | undefined
   return { lock: r.lock, bytes };
 }
 
-/** Locks at least this large are hashed in a worker thread while the plan loads; a smaller one is hashed sooner than a thread starts. */
+/** Locks at least this large are read in a worker thread while the plan loads; a smaller one is read sooner than a thread starts. */
 export const LOCK_WORKER_BYTES = 4 * 1024 * 1024;
 
 /**
- * Read a plan and its lock, hashing a large lock's bytes (the digest check, compactDigest) in a
- * worker thread while the plan loads on this one. Same answers and the same errors, in the same
- * order, as loadPlanFile then loadLock: a lock that cannot be read is reported after the plan.
- * `workerBytes`: the size from which the worker is used (Infinity: never).
+ * Read a plan and its lock, the lock (if large) read by the fast reader in a worker thread while
+ * the plan loads on this one. Same answers and the same errors, in the same order, as loadPlanFile
+ * then loadLock: a lock that cannot be read is reported after the plan. `workerBytes`: the size
+ * from which the worker is used (Infinity: never).
  */
 export async function loadPlanAndLock(planFile: string, lockFile: string, workerBytes = LOCK_WORKER_BYTES): Promise<{ plan: Plan; lock: Lock | undefined; bytes: Buffer | undefined }> {
   let bytes: Buffer | undefined;
@@ -50,35 +50,38 @@ export async function loadPlanAndLock(planFile: string, lockFile: string, worker
   } catch (e) {
     unreadable = e;
   }
-  const hashing = bytes !== undefined && bytes.length >= workerBytes && bytes.buffer instanceof SharedArrayBuffer ? digestInWorker(bytes) : undefined;
+  const reading = bytes !== undefined && bytes.length >= workerBytes && bytes.buffer instanceof SharedArrayBuffer ? readLockInWorker(bytes) : undefined;
   try {
     const plan = loadPlanFile(planFile);
     if (unreadable !== undefined) throw unreadable;
     if (bytes === undefined) return { plan, lock: undefined, bytes };
-    const known = hashing ? await hashing.digest : undefined;
-    const r = parseLock(bytes, lockFile, plan.name, known);
+    const r = parseLock(bytes, lockFile, plan.name, reading ? await reading.lock : undefined);
     if (!r.ok) throw new UsageError(`${lockFile}: the lock cannot be used`, r.diagnostics);
     return { plan, lock: r.lock, bytes };
   } finally {
-    hashing?.stop();
+    reading?.stop();
   }
 }
 
-/** compactDigest of `bytes` (in shared memory) in a worker thread; undefined when the thread fails or cannot start. */
-export function digestInWorker(bytes: Buffer): { digest: Promise<CompactDigest | undefined>; stop(): void } {
+/**
+ * readLockFast of `bytes` (in shared memory) in a worker thread: `{ lock }`, the lock or undefined
+ * when the fast reader is not sure of the bytes; undefined itself when the thread fails or cannot
+ * start (the caller then reads the lock on its own thread).
+ */
+export function readLockInWorker(bytes: Buffer): { lock: Promise<{ lock: Lock | undefined } | undefined>; stop(): void } {
   let worker: Worker | undefined;
-  const digest = new Promise<CompactDigest | undefined>((resolve) => {
+  const lock = new Promise<{ lock: Lock | undefined } | undefined>((resolve) => {
     try {
-      worker = new Worker(new URL("./lock-digest-worker.js", import.meta.url), { workerData: { buffer: bytes.buffer, length: bytes.length } });
+      worker = new Worker(new URL("./lock-read-worker.js", import.meta.url), { workerData: { buffer: bytes.buffer, length: bytes.length } });
     } catch {
       resolve(undefined);
       return;
     }
-    worker.once("message", (m: CompactDigest | null) => resolve(m ?? undefined));
+    worker.once("message", (m: LockParts | null) => resolve({ lock: m === null ? undefined : lockFromParts(m, bytes) }));
     worker.once("error", () => resolve(undefined));
     worker.once("exit", () => resolve(undefined));
   });
-  return { digest, stop: () => void worker?.terminate() };
+  return { lock, stop: () => void worker?.terminate() };
 }
 
 /** Allocate, turning refusals into a UsageError that lists every move. */

@@ -7,7 +7,8 @@ import { createHash } from "node:crypto";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { type Lock, type RetiredValue, lockBody, parseLock, parseLockReadable, serializeLock } from "../../src/alloc/lock.js";
-import { compactDigest, readLockFast } from "../../src/alloc/lock-fast.js";
+import { readLockFast } from "../../src/alloc/lock-fast.js";
+import { lockFromParts, lockToParts } from "../../src/alloc/lock-parts.js";
 
 /** The readable reference: build the object, stringify it twice. */
 function reference(lock: Lock): string {
@@ -110,47 +111,34 @@ describe("readLockFast (the fast reader) against parseLockReadable (JSON.parse, 
         expect(outcome(parseLock(text, "x.lock.json", lock.plan))).toBe(outcome(parseLockReadable(text, "x.lock.json", lock.plan)));
         expect(outcome(parseLock(Buffer.from(text), "x.lock.json", lock.plan))).toBe(outcome(parseLockReadable(text, "x.lock.json", lock.plan)));
         expect(outcome(parseLock(text, "x.lock.json", "another-plan"))).toBe(outcome(parseLockReadable(text, "x.lock.json", "another-plan")));
-        // with the digest worked out beside the reader (as the CLI does in a worker thread)
+        // with the fast reader's answer found elsewhere (as the CLI does in a worker thread), in parts
         const bytes = Buffer.from(text);
-        expect(outcome(parseLock(bytes, "x.lock.json", lock.plan, compactDigest(bytes)))).toBe(outcome(parseLockReadable(text, "x.lock.json", lock.plan)));
+        const fast = readLockFast(bytes);
+        const carried = fast && lockFromParts(structuredClone(lockToParts(fast).parts), bytes);
+        expect(outcome(parseLock(bytes, "x.lock.json", lock.plan, { lock: carried }))).toBe(outcome(parseLockReadable(text, "x.lock.json", lock.plan)));
       }),
       { numRuns: 600 },
     );
   });
 });
 
-describe("compactDigest (the digest worked out beside the reader)", () => {
-  it("finds the digest member and gives the digest the lock carries", () => {
+describe("a lock in parts (read in a worker thread, used in the main one)", () => {
+  it("comes back as the lock the fast reader gave, through a structured clone that moves its columns", () => {
     fc.assert(
       fc.property(lockArb, (lock) => {
         const text = serializeLock(lock);
         const bytes = Buffer.from(text);
-        const d = compactDigest(bytes);
-        // the reference: JSON.parse the lock back and read its own digest member
-        expect(d?.digest).toBe(JSON.parse(text).digest);
-        expect(bytes.subarray(d!.at, d!.at + 20).toString("latin1")).toMatch(/^,\s*"digest"/);
+        const fast = readLockFast(bytes)!;
+        const { parts, transfer } = lockToParts(fast);
+        const back = lockFromParts(structuredClone(parts, { transfer }), bytes);
+        const ref = parseLockReadable(text, "x.lock.json", lock.plan);
+        if (!ref.ok) throw new Error("unreadable");
+        expect(plainMaps(back)).toEqual(ref.lock);
+        expect(serializeLock(back)).toBe(text);
+        // the parts' columns were moved, not copied: the thread that sent them no longer has them
+        if (parts.store) expect(parts.store.hash.length).toBe(0);
       }),
       { numRuns: 200 },
     );
-  });
-  it("is used only where the reader finds its digest member: a wrong answer elsewhere changes nothing", () => {
-    fc.assert(
-      fc.property(lockArb, fc.nat(), (lock, n) => {
-        const bytes = Buffer.from(serializeLock(lock));
-        const right = compactDigest(bytes)!;
-        // the answer for other bytes, or at another place, must not let an edited lock through
-        const wrongAt = { at: (right.at + 1 + (n % 7)) % bytes.length, digest: right.digest };
-        expect(readLockFast(bytes, wrongAt)).toEqual(readLockFast(bytes));
-        const edited = Buffer.from(serializeLock({ ...lock, layout: lock.layout + "x" }));
-        expect(readLockFast(edited, compactDigest(edited))).toBeDefined();
-        // a digest of the other bytes at this lock's place: the member's text no longer matches
-        expect(readLockFast(edited, { at: compactDigest(edited)!.at, digest: right.digest })).toBeUndefined();
-      }),
-      { numRuns: 100 },
-    );
-  });
-  it("answers undefined for text without a digest member", () => {
-    expect(compactDigest(Buffer.from('{"schema": "x"}'))).toBeUndefined();
-    expect(compactDigest(Buffer.from('"digest": "sha256:00"}'))).toBeUndefined();
   });
 });

@@ -342,7 +342,7 @@ describe("published schemas", () => {
   });
 });
 
-describe("plan and lock read together (a large lock is hashed in a worker thread while the plan loads)", () => {
+describe("plan and lock read together (a large lock is read in a worker thread while the plan loads)", () => {
   // the built modules: a worker thread runs the built JavaScript, not the TypeScript sources
   const built = async () => ({
     files: (await import(join(BUILD, "dist", "cli", "plan-files.js"))) as typeof import("../../src/cli/plan-files.js"),
@@ -350,18 +350,25 @@ describe("plan and lock read together (a large lock is hashed in a worker thread
     fast: (await import(join(BUILD, "dist", "alloc", "lock-fast.js"))) as typeof import("../../src/alloc/lock-fast.js"),
   });
 
-  it("the worker's digest is the one the reader computes itself", async () => {
-    const { files, fast } = await built();
+  it("the worker's lock is the one the fast reader gives on this thread", async () => {
+    const { files, lock, fast } = await built();
     const { dir, plan } = metroIn();
     ok(cli(dir, "allocate", plan));
     const bytes = readFileSync(join(dir, "harbourline-metro.lock.json"));
     const shared = Buffer.from(new SharedArrayBuffer(bytes.length));
     bytes.copy(shared);
-    const w = files.digestInWorker(shared);
-    const got = await w.digest;
+    const w = files.readLockInWorker(shared);
+    const got = await w.lock;
     w.stop();
-    expect(got).toEqual(fast.compactDigest(bytes));
-    expect(got?.digest).toBe(JSON.parse(bytes.toString("utf8")).digest);
+    expect(got?.lock).toBeDefined();
+    expect(lock.serializeLock(got!.lock!)).toBe(lock.serializeLock(fast.readLockFast(bytes)!));
+    expect(lock.serializeLock(got!.lock!)).toBe(bytes.toString("utf8"));
+    // bytes the fast reader is not sure of: the worker says so (the caller reads them the readable way)
+    const edited = Buffer.from(new SharedArrayBuffer(bytes.length));
+    Buffer.from(bytes.toString("latin1").replace('"0x1"', '"0x2"'), "latin1").copy(edited);
+    const w2 = files.readLockInWorker(edited);
+    expect(await w2.lock).toEqual({ lock: undefined });
+    w2.stop();
   });
 
   it("reads the same lock with the worker as without, and refuses a damaged one the same way", async () => {
@@ -383,6 +390,22 @@ describe("plan and lock read together (a large lock is hashed in a worker thread
       );
     expect(await refusal(0)).toBe("lock/digest");
     expect(await refusal(Infinity)).toBe("lock/digest");
+  });
+
+  it("reads the lock on this thread when the worker cannot start (run from the TypeScript sources, there is no worker script)", async () => {
+    const { lock } = await built();
+    const sources = await import("../../src/cli/plan-files.js");
+    const { dir, plan } = metroIn();
+    ok(cli(dir, "allocate", plan));
+    const lockFile = join(dir, "harbourline-metro.lock.json");
+    const bytes = readFileSync(lockFile);
+    const shared = Buffer.from(new SharedArrayBuffer(bytes.length));
+    bytes.copy(shared);
+    const w = sources.readLockInWorker(shared);
+    expect(await w.lock).toBeUndefined();
+    w.stop();
+    const fallback = await sources.loadPlanAndLock(plan, lockFile, 0);
+    expect(lock.serializeLock(fallback.lock!)).toBe(bytes.toString("utf8"));
   });
 
   it("reports a broken plan before a lock that cannot be read, as the plain reading does", async () => {
