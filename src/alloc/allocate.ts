@@ -15,7 +15,7 @@ import { inRanges, levelCapacity, rangeSize } from "../plan/normalize.js";
 import { LockedFunctions, keyHash } from "./lock-functions.js";
 import { type Lock, type RetiredValue, emptyLock } from "./lock.js";
 import { bitOrder, nthValue } from "./order.js";
-import { type SidRow, SidRowSink, setSidWords } from "./sid-rows.js";
+import { type RowSource, type SidRow, SidRowSink, setSidWords } from "./sid-rows.js";
 
 /** One value that would change, for the renumbering refusal and for the summary. */
 export interface Move {
@@ -309,7 +309,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const firstEnd = endSpecs(plan, algo)[0]?.key;
       // Two-C-SID layouts: the first End SID is the node's global C-SID alone (no local C-SID).
       const specs = (anycastName ? endSpecs(plan, algo) : (specsFor.get(owner) ?? []).filter((s) => s.algorithm === algo || s.algorithm === undefined)).map((s) =>
-        L.kind === "compressed" && L.twoCsid && s.key === firstEnd ? { ...s, noFunction: true, shapeCache: undefined } : s,
+        L.kind === "compressed" && L.twoCsid && s.key === firstEnd ? s.withoutFunction() : s,
       );
       const space = `${owner}|${algo}`;
       const taken = new Set<bigint>(retiredIn("function", space));
@@ -726,27 +726,43 @@ function flatKey(algo: number, key: string): string {
   return [algo, "|", key].join("");
 }
 
-/** What the allocator will create for one owner: the binding, its behaviour and pool. */
-interface SidSpec {
-  readonly key: string;
-  readonly behavior: BehaviorName;
-  readonly flavors: readonly Flavor[];
-  readonly pool: PoolKind;
-  readonly algorithm: number | undefined; // undefined: every algorithm of the node
-  readonly pinned: bigint | undefined;
-  readonly noFunction: boolean;
-  readonly context: SidContext;
-  readonly at: (string | number)[];
+/**
+ * What the allocator will create for one owner: the binding, its behaviour and pool. A class, so
+ * that every spec has the same fields from the start (the allocator reads them a million times;
+ * objects that gained fields one by one would make those reads slow).
+ */
+class SidSpec implements RowSource {
   /** `algorithm|key` when the spec has one algorithm (see lockKey), made when first asked for. */
-  lockKey?: string;
-  /** keyHash(key), for the fast reader's functions (LockedFunctions.lookup). */
-  keyHash?: number;
+  lockKey: string | undefined = undefined;
   /** lockKey's per-algorithm keys for specs of every algorithm. */
-  lockKeys?: string[];
-  /** shapeOf's answer for the last layout it was asked about. */
-  shapeCache?: { readonly layout: Layout; readonly shape: SidShape };
-  /** The spec's place in buildSpecs's list of every spec (the sink's source id). */
-  rowId?: number;
+  lockKeys: string[] | undefined = undefined;
+  /** keyHash(key), for the fast reader's functions (LockedFunctions.lookup). */
+  keyHash: number | undefined = undefined;
+  /** shapeOf's answer (shape) for the last layout it was asked about (shapeLayout). */
+  shapeLayout: Layout | undefined = undefined;
+  shape: SidShape | undefined = undefined;
+
+  constructor(
+    readonly key: string,
+    readonly behavior: BehaviorName,
+    readonly flavors: readonly Flavor[],
+    readonly pool: PoolKind,
+    /** undefined: every algorithm of the node */
+    readonly algorithm: number | undefined,
+    readonly pinned: bigint | undefined,
+    readonly context: SidContext,
+    readonly at: (string | number)[],
+    readonly noFunction = false,
+    /** The spec's place in buildSpecs's list of every spec (the sink's source id); -1 until it has one. */
+    public rowId = -1,
+  ) {}
+
+  /** The same SID without a function field (in two-C-SID layouts the first End SID is the node's global C-SID alone). */
+  withoutFunction(): SidSpec {
+    const c = new SidSpec(this.key, this.behavior, this.flavors, this.pool, this.algorithm, this.pinned, this.context, this.at, true, this.rowId);
+    c.keyHash = this.keyHash;
+    return c;
+  }
 }
 
 /** The flavour list of the service SIDs, shared (flavour lists are never changed once made). */
@@ -757,18 +773,7 @@ const endSpecCache = new WeakMap<Plan, readonly SidSpec[]>();
 function endSpecs(plan: Plan, _algo: number): readonly SidSpec[] {
   const c = endSpecCache.get(plan);
   if (c) return c;
-  const specs = plan.endSids.map((f, i) => ({
-    key: `End|${normalizeFlavors(f).join("+") || "plain"}`,
-    behavior: "End" as const,
-    flavors: f,
-    pool: "end" as const,
-    algorithm: undefined,
-    pinned: undefined,
-    noFunction: false,
-    context: {},
-    at: ["end-sids", i],
-    rowId: i,
-  }));
+  const specs = plan.endSids.map((f, i) => new SidSpec(`End|${normalizeFlavors(f).join("+") || "plain"}`, "End", f, "end", undefined, undefined, {}, ["end-sids", i], false, i));
   endSpecCache.set(plan, specs);
   return specs;
 }
@@ -778,16 +783,24 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
   const out = new Map<string, SidSpec[]>();
   const all: SidSpec[] = [...endSpecs(plan, 0)];
   // a spec may be shared by several nodes (a VRF's PEs); its lock key is the same for all of them
-  const add = (node: string, s: SidSpec) => {
-    if (s.rowId === undefined) {
+  /** A node's list of specs, made when first asked for. */
+  const listOf = (node: string): SidSpec[] => {
+    let list = out.get(node);
+    if (!list) out.set(node, (list = []));
+    return list;
+  };
+  const addTo = (list: SidSpec[], s: SidSpec) => {
+    if (s.rowId < 0) {
       s.rowId = all.length;
       all.push(s);
     }
-    const list = out.get(node);
-    if (list) list.push(s);
-    else out.set(node, [s]);
+    list.push(s);
   };
-  for (const n of plan.nodes) for (const s of endSpecs(plan, 0)) add(n.name, s);
+  const add = (node: string, s: SidSpec) => addTo(listOf(node), s);
+  for (const n of plan.nodes) {
+    const list = listOf(n.name);
+    for (const s of endSpecs(plan, 0)) addTo(list, s);
+  }
   // adjacency keys per node, to tell parallel links apart
   const seen = new Map<string, Set<string>>();
   for (const l of plan.links) {
@@ -813,20 +826,16 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
         mine.add(key);
         const pinned = prot === "protected" && variants.length === 2 ? me.pinnedProtected : prot === "protected" ? (me.pinnedProtected ?? me.pinned) : me.pinned;
         // one context and plan path for the adjacency, shared by its SIDs of every algorithm
-        const context = { neighbor: peer.node, ...(me.iface ? { interface: me.iface } : {}), protection: prot, link: l.name };
+        // (object literals, not spreads: a spread of a temporary object costs about three times as much)
+        const context: SidContext = me.iface ? { neighbor: peer.node, interface: me.iface, protection: prot, link: l.name } : { neighbor: peer.node, protection: prot, link: l.name };
         const at = ["links", l.index, "ends", l.ends.indexOf(me)];
+        const list = listOf(me.node);
+        // the key's hash once for the SIDs of every algorithm (they share the key)
+        const h = algos.length > 1 ? keyHash(key) : undefined;
         for (const algo of algos) {
-          add(me.node, {
-            key,
-            behavior: "End.X",
-            flavors: plan.adjacencyFlavors,
-            pool: "adjacency",
-            algorithm: algo,
-            pinned,
-            noFunction: false,
-            context,
-            at,
-          });
+          const spec = new SidSpec(key, "End.X", plan.adjacencyFlavors, "adjacency", algo, pinned, context, at);
+          spec.keyHash = h;
+          addTo(list, spec);
         }
       }
     }
@@ -836,18 +845,19 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     const behaviors: { b: BehaviorName; fam: string }[] =
       fams.length === 2 && v.mode === "combined" ? [{ b: "End.DT46", fam: "ipv4+ipv6" }] : fams.map((f) => ({ b: f === "ipv4" ? ("End.DT4" as const) : ("End.DT6" as const), fam: f }));
     // one spec per VRF and behaviour, shared by all its PEs (specs are never changed once made)
-    const specs = behaviors.map(({ b, fam }): SidSpec => ({ key: `${b}|${v.name}`, behavior: b, flavors: NO_FLAVORS, pool: "service", algorithm: v.algorithm, pinned: undefined, noFunction: false, context: { vrf: v.name, family: fam, ...(v.table !== undefined ? { table: String(v.table) } : {}) }, at: ["vrfs", i] }));
+    const specs = behaviors.map(({ b, fam }) => new SidSpec(`${b}|${v.name}`, b, NO_FLAVORS, "service", v.algorithm, undefined, { vrf: v.name, family: fam, ...(v.table !== undefined ? { table: String(v.table) } : {}) }, ["vrfs", i]));
     for (const pe of v.pes) for (const spec of specs) add(pe, spec);
     v.ces.forEach((c, j) => {
       const b: BehaviorName = c.family === "ipv4" ? "End.DX4" : "End.DX6";
-      add(c.pe, { key: `${b}|${v.name}|${c.name}`, behavior: b, flavors: NO_FLAVORS, pool: "service", algorithm: v.algorithm, pinned: undefined, noFunction: false, context: { vrf: v.name, ce: c.name, family: c.family, ...(c.iface ? { interface: c.iface } : {}) }, at: ["vrfs", i, "ces", j] });
+      const context: SidContext = c.iface ? { vrf: v.name, ce: c.name, family: c.family, interface: c.iface } : { vrf: v.name, ce: c.name, family: c.family };
+      add(c.pe, new SidSpec(`${b}|${v.name}|${c.name}`, b, NO_FLAVORS, "service", v.algorithm, undefined, context, ["vrfs", i, "ces", j]));
     });
   });
   plan.l2.forEach((s, i) => {
     if (s.kind === "bridge") {
       const context = { "bridge-domain": s.name };
-      const unicast: SidSpec = { key: `End.DT2U|${s.name}`, behavior: "End.DT2U", flavors: NO_FLAVORS, pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context, at: ["l2-services", i] };
-      const multicast: SidSpec = { key: `End.DT2M|${s.name}`, behavior: "End.DT2M", flavors: NO_FLAVORS, pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context, at: ["l2-services", i] };
+      const unicast = new SidSpec(`End.DT2U|${s.name}`, "End.DT2U", NO_FLAVORS, "l2", s.algorithm, undefined, context, ["l2-services", i]);
+      const multicast = new SidSpec(`End.DT2M|${s.name}`, "End.DT2M", NO_FLAVORS, "l2", s.algorithm, undefined, context, ["l2-services", i]);
       for (const n of s.nodes) {
         add(n, unicast);
         add(n, multicast);
@@ -855,15 +865,21 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     } else {
       const b: BehaviorName = s.kind === "wire" ? "End.DX2" : "End.DX2V";
       s.attachments.forEach((a, j) => {
-        add(a.node, { key: `${b}|${s.name}|${a.iface ?? ""}|${a.vlan ?? ""}`, behavior: b, flavors: NO_FLAVORS, pool: "l2", algorithm: s.algorithm, pinned: undefined, noFunction: false, context: { service: s.name, ...(a.iface ? { interface: a.iface } : {}), ...(a.vlan !== undefined ? { vlan: String(a.vlan) } : {}) }, at: ["l2-services", i, "attachments", j] });
+        const context: Record<string, string> = { service: s.name };
+        if (a.iface) context.interface = a.iface;
+        if (a.vlan !== undefined) context.vlan = String(a.vlan);
+        add(a.node, new SidSpec(`${b}|${s.name}|${a.iface ?? ""}|${a.vlan ?? ""}`, b, NO_FLAVORS, "l2", s.algorithm, undefined, context, ["l2-services", i, "attachments", j]));
       });
     }
   });
   plan.policies.forEach((p, i) => {
-    add(p.node, { key: `${p.behavior}|${p.name}`, behavior: p.behavior, flavors: NO_FLAVORS, pool: "binding", algorithm: p.algorithm, pinned: undefined, noFunction: false, context: { policy: p.name, ...(p.endpoint ? { endpoint: p.endpoint } : {}), ...(p.color !== undefined ? { color: String(p.color) } : {}) }, at: ["policies", i] });
+    const context: Record<string, string> = { policy: p.name };
+    if (p.endpoint) context.endpoint = p.endpoint;
+    if (p.color !== undefined) context.color = String(p.color);
+    add(p.node, new SidSpec(`${p.behavior}|${p.name}`, p.behavior, NO_FLAVORS, "binding", p.algorithm, undefined, context, ["policies", i]));
   });
   plan.tables.forEach((t, i) => {
-    const spec: SidSpec = { key: `End.T|${t.name}`, behavior: "End.T", flavors: t.flavors, pool: "table", algorithm: 0, pinned: undefined, noFunction: false, context: { table: t.table !== undefined ? `${t.name}(${t.table})` : t.name }, at: ["tables", i] };
+    const spec = new SidSpec(`End.T|${t.name}`, "End.T", t.flavors, "table", 0, undefined, { table: t.table !== undefined ? `${t.name}(${t.table})` : t.name }, ["tables", i]);
     for (const n of t.nodes) add(n, spec);
   });
   return { byNode: out, all };
@@ -965,10 +981,10 @@ const shapes = new WeakMap<Layout, Map<string, SidShape>>();
 
 function shapeOf(L: Layout, s: SidSpec): SidShape {
   // the spec remembers its shape for the last layout asked (a spec is shared by many SIDs)
-  const last = s.shapeCache;
-  if (last !== undefined && last.layout === L) return last.shape;
+  if (s.shapeLayout === L) return s.shape!;
   const shape = shapeByKey(L, s);
-  s.shapeCache = { layout: L, shape };
+  s.shapeLayout = L;
+  s.shape = shape;
   return shape;
 }
 
