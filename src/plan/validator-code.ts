@@ -19,7 +19,7 @@ export function planValidatorCode(): string {
   const { Ajv2020 } = require("ajv/dist/2020.js") as { Ajv2020: typeof Ajv2020Class };
   const standaloneCode = (require("ajv/dist/standalone") as { default: (ajv: Ajv2020Class, v: unknown) => string }).default;
   const ajv = new Ajv2020({ ...PLAN_VALIDATOR_OPTIONS, code: { source: true, esm: true } });
-  const code = standaloneCode(ajv, ajv.compile(PLAN_SCHEMA));
+  const code = lengthFirst(standaloneCode(ajv, ajv.compile(PLAN_SCHEMA)));
   // ajv's ESM output still calls require() for its runtime helpers (ucs2length)
   return [
     "// @ts-nocheck",
@@ -29,4 +29,20 @@ export function planValidatorCode(): string {
     code.replace(/^"use strict";/, ""),
     "",
   ].join("\n");
+}
+
+/**
+ * ajv checks maxLength and minLength by counting a string's code points (ucs2length), a loop over
+ * every string of a plan. A string of n UTF-16 units has between n/2 and n code points, so its
+ * length alone settles most checks: `count > max` needs counting only when n > max, and
+ * `count < min` only when min <= n < 2 min. The same verdicts (a test compares them with the
+ * validator ajv compiles at run time), about a tenth of a second less on a 20,000-router plan.
+ */
+function lengthFirst(code: string): string {
+  const m = /const (func\d+) = require\("ajv\/dist\/runtime\/ucs2length"\)\.default;/.exec(code);
+  if (!m) return code;
+  const f = m[1]!;
+  return code
+    .replace(new RegExp(`${f}\\((data\\d*)\\) > (\\d+)`, "g"), (_, d: string, n: string) => `(${d}.length > ${n} && ${f}(${d}) > ${n})`)
+    .replace(new RegExp(`${f}\\((data\\d*)\\) < (\\d+)`, "g"), (_, d: string, n: string) => `(${d}.length < ${n} || (${d}.length < ${2 * Number(n)} && ${f}(${d}) < ${n}))`);
 }

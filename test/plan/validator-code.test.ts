@@ -59,7 +59,10 @@ describe("the plan validator compiled ahead of time", () => {
 
   it("gives the run-time validator's errors on broken copies of the sample plans", () => {
     const plans = samples.map(dataOf);
-    const junk = [null, -1, 1.5, "", "x".repeat(300), "zz::/999", true, [], {}, { bogus: 1 }, 2 ** 60];
+    // strings about the length limits, some with characters outside the BMP (two UTF-16 units, one
+    // code point: the generated code settles length checks by .length first, see validator-code.ts)
+    const near = [1, 2, 3, 63, 64, 65, 127, 128, 129].flatMap((n) => ["x".repeat(n), "\u{1F600}".repeat(n), "x" + "\u{1F600}".repeat(Math.max(0, n - 1))]);
+    const junk = [null, -1, 1.5, "", "x".repeat(300), "zz::/999", true, [], {}, { bogus: 1 }, 2 ** 60, "\u{1F600}", ...near];
     let rejected = 0;
     fc.assert(
       fc.property(fc.nat(), fc.nat(), fc.nat(junk.length - 1), fc.constantFrom("replace", "delete", "add-key"), (pi, ki, ji, how) => {
@@ -79,9 +82,35 @@ describe("the plan validator compiled ahead of time", () => {
         if (!want.ok) rejected++;
         expect(verdict(ahead, data)).toEqual(want);
       }),
-      { seed: 9800, numRuns: 300 },
+      { seed: 9800, numRuns: 600 },
     );
     // most of the copies are broken, so the errors were compared, not only the verdicts
-    expect(rejected).toBeGreaterThan(150);
+    expect(rejected).toBeGreaterThan(250);
+  });
+  it("judges strings about every length limit as the run-time validator does, at every string of a sample plan", () => {
+    // the generated code settles maxLength/minLength by .length first (validator-code.ts): strings
+    // of 1..129 units, some of characters outside the BMP (two units, one code point)
+    const near = [1, 2, 3, 63, 64, 65, 127, 128, 129].flatMap((n) => ["x".repeat(n), "\u{1F600}".repeat(Math.ceil(n / 2)), "x" + "\u{1F600}".repeat(n >> 1)]);
+    const plan = dataOf("harbourline-metro.yaml");
+    const stringPaths = paths(plan).filter((p) => {
+      let v: unknown = plan;
+      for (const k of p) v = (v as Record<string | number, unknown>)[k];
+      return typeof v === "string";
+    });
+    expect(stringPaths.length).toBeGreaterThan(50);
+    let differ = 0;
+    for (const path of stringPaths) {
+      for (const text of near) {
+        const data = clone(plan) as Record<string, unknown>;
+        let parent: unknown = data;
+        for (const k of path.slice(0, -1)) parent = (parent as Record<string | number, unknown>)[k];
+        (parent as Record<string | number, unknown>)[path[path.length - 1]!] = text;
+        const want = verdict(atRunTime, data);
+        expect(verdict(ahead, data)).toEqual(want);
+        if (want.ok !== verdict(atRunTime, plan).ok) differ++;
+      }
+    }
+    // some of the strings break a limit, so limits were compared, not only passes
+    expect(differ).toBeGreaterThan(0);
   });
 });
