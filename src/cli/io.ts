@@ -73,7 +73,9 @@ export function readSharedIfExists(file: string, sharedFrom: number): Buffer | u
 /** Whether two file contents (bytes or text, undefined for no file) are the same bytes. */
 export function sameContent(a: Buffer | string | undefined, b: Buffer | string | undefined): boolean {
   if (a === undefined || b === undefined) return a === b;
-  return Buffer.from(a).equals(Buffer.from(b));
+  // a Buffer as it is (Buffer.from would copy it: a large lock is tens of megabytes)
+  const bytes = (x: Buffer | string) => (typeof x === "string" ? Buffer.from(x) : x);
+  return bytes(a).equals(bytes(b));
 }
 
 

@@ -33,7 +33,7 @@ export function buildProgram(io: Io): Command & { exitCode?: number } {
     .option("--lock <file>", "lock file (default: <plan>.lock.json beside the plan)")
     .option("--allow-renumber", "accept edits that move locked values (old values are retired)")
     .option("--dry-run", "show the result without writing the lock")
-    .action((plan: string, flags) => done(runAllocate(plan, flags, io)));
+    .action(async (plan: string, flags) => done(await runAllocate(plan, flags, io)));
 
   program
     .command("emit")
@@ -81,7 +81,7 @@ export function buildProgram(io: Io): Command & { exitCode?: number } {
     .argument("[names...]", "former holders: group paths, node or anycast names, SID keys")
     .option("--all", "release every retired value")
     .option("--lock <file>", "lock file")
-    .action((plan: string, names: string[], flags) => done(runRelease(plan, names, flags, io)));
+    .action(async (plan: string, names: string[], flags) => done(await runRelease(plan, names, flags, io)));
 
   program
     .command("diff")

@@ -216,7 +216,7 @@ describe("the emit command", () => {
   const io = (out: string[]): Io => ({ out: (s) => void out.push(s), err: () => {}, isTty: false, now: new Date("2026-06-01T00:00:00Z") });
 
   it("writes the table to standard output chunk by chunk, with tableToCsv's and tableToJson's text", async () => {
-    expect(runAllocate(plan, {}, io([]))).toBe(0);
+    expect(await runAllocate(plan, {}, io([]))).toBe(0);
     const a = lockedAllocation(loadPlanFile(plan), lockPathFor(plan));
     for (const format of ["csv", "json"] as const) {
       const out: string[] = [];
@@ -260,7 +260,7 @@ describe("the emit command", () => {
   it("writes a larger table to standard output in several CSV chunks, with tableToCsv's text", async () => {
     const planFile = join(dir, "tessaline-stdout.yaml");
     copyFileSync(new URL("../../sample-plans/tessaline-backbone.yaml", import.meta.url), planFile);
-    expect(runAllocate(planFile, {}, io([]))).toBe(0);
+    expect(await runAllocate(planFile, {}, io([]))).toBe(0);
     const out: string[] = [];
     expect(await runEmit(planFile, { format: "csv" }, io(out))).toBe(0);
     expect(out.length).toBeGreaterThan(1);
@@ -282,7 +282,7 @@ describe("the emit command", () => {
       const planFile = join(dir, `${sample}.yaml`);
       const lock = join(own, "plan.lock.json");
       copyFileSync(new URL(`../../sample-plans/${sample}.yaml`, import.meta.url), planFile);
-      expect(runAllocate(planFile, { lock }, io([]))).toBe(0);
+      expect(await runAllocate(planFile, { lock }, io([]))).toBe(0);
       const p = loadPlanFile(planFile);
       const t = lockedAllocation(p, lock).table;
       expect(t.nodes.length).toBeGreaterThan(1);

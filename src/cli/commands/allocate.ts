@@ -1,10 +1,10 @@
 /** `sidcarve allocate PLAN`: allocate, write the lock atomically, print the summary. */
-import { serializeLock } from "../../alloc/lock.js";
+import { type Lock, serializeLock } from "../../alloc/lock.js";
 import { allocationSummary } from "../../emit/summary.js";
 import type { Io } from "../context.js";
 import type { Plan } from "../../plan/model.js";
 import { UsageError, readBytesIfExists, sameContent, withBusyMarker, writeAtomic } from "../io.js";
-import { allocateOrFail, loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
+import { allocateOrFail, loadPlanAndLock, lockPathFor } from "../plan-files.js";
 
 export interface AllocateFlags {
   readonly lock?: string;
@@ -12,17 +12,18 @@ export interface AllocateFlags {
   readonly dryRun?: boolean;
 }
 
-export function runAllocate(planFile: string, flags: AllocateFlags, io: Io): number {
-  const plan = loadPlanFile(planFile);
+export async function runAllocate(planFile: string, flags: AllocateFlags, io: Io): Promise<number> {
   const lockFile = lockPathFor(planFile, flags.lock);
-  if (flags.dryRun) return allocateHolding(plan, lockFile, flags, io);
-  // Hold <lock>.busy from reading the lock to writing it: a second run at the same time is
-  // refused up front instead of overwriting the first run's values.
-  return withBusyMarker(lockFile, () => allocateHolding(plan, lockFile, flags, io));
+  // the lock is read while the plan loads (a large one in a worker thread)
+  const { plan, lock, bytes } = await loadPlanAndLock(planFile, lockFile);
+  if (flags.dryRun) return allocateHolding(plan, lock, bytes, lockFile, flags, io);
+  // Hold <lock>.busy until the lock is written: a second run at the same time is refused up front
+  // instead of overwriting the first run's values. The lock was read just before the marker was
+  // taken; the check before writing (the lock's bytes are still those read) covers that moment.
+  return withBusyMarker(lockFile, () => allocateHolding(plan, lock, bytes, lockFile, flags, io));
 }
 
-function allocateHolding(plan: Plan, lockFile: string, flags: AllocateFlags, io: Io): number {
-  const { lock, bytes } = loadLock(plan, lockFile);
+function allocateHolding(plan: Plan, lock: Lock | undefined, bytes: Buffer | undefined, lockFile: string, flags: AllocateFlags, io: Io): number {
   const a = allocateOrFail(plan, lock, { allowRenumber: flags.allowRenumber === true });
   const newText = serializeLock(a.lock);
   const sids = a.packed.count;

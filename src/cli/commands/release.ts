@@ -1,25 +1,24 @@
 /** `sidcarve release PLAN (--all | NAME...)`: free retired values so they can be handed out again. */
-import { releaseRetired, serializeLock } from "../../alloc/lock.js";
+import { type Lock, releaseRetired, serializeLock } from "../../alloc/lock.js";
 import type { Io } from "../context.js";
-import type { Plan } from "../../plan/model.js";
 import { UsageError, readBytesIfExists, sameContent, withBusyMarker, writeAtomic } from "../io.js";
-import { loadLock, loadPlanFile, lockPathFor } from "../plan-files.js";
+import { loadPlanAndLock, lockPathFor } from "../plan-files.js";
 
 export interface ReleaseFlags {
   readonly lock?: string;
   readonly all?: boolean;
 }
 
-export function runRelease(planFile: string, names: readonly string[], flags: ReleaseFlags, io: Io): number {
+export async function runRelease(planFile: string, names: readonly string[], flags: ReleaseFlags, io: Io): Promise<number> {
   if (!flags.all && names.length === 0) throw new UsageError("name what to release (a group path, node, anycast group or SID key), or give --all");
-  const plan = loadPlanFile(planFile);
   const lockFile = lockPathFor(planFile, flags.lock);
-  // hold the lock's busy marker from read to write, as allocate does
-  return withBusyMarker(lockFile, () => releaseHolding(plan, lockFile, names, flags, io));
+  const { lock, bytes } = await loadPlanAndLock(planFile, lockFile);
+  // hold the lock's busy marker until the lock is written, as allocate does (and, as there, the
+  // check before writing covers the moment between reading the lock and taking the marker)
+  return withBusyMarker(lockFile, () => releaseHolding(lock, bytes, lockFile, names, flags, io));
 }
 
-function releaseHolding(plan: Plan, lockFile: string, names: readonly string[], flags: ReleaseFlags, io: Io): number {
-  const { lock, bytes } = loadLock(plan, lockFile);
+function releaseHolding(lock: Lock | undefined, bytes: Buffer | undefined, lockFile: string, names: readonly string[], flags: ReleaseFlags, io: Io): number {
   if (!lock) throw new UsageError(`${lockFile}: no lock yet; nothing is retired`);
   const { lock: next, released } = releaseRetired(lock, flags.all ? "all" : names);
   if (released.length === 0) {
