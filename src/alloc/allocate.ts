@@ -708,8 +708,9 @@ function lockedCounts(fns: ReadonlyMap<string, bigint>): Map<number, number> {
 
 /**
  * The key of a SID in the lock: `algorithm|spec key`. A spec of one algorithm carries it, made
- * when first asked for (against an up-to-date lock read by the fast reader, never); the End specs, shared by every node and algorithm, keep theirs per
- * algorithm. (Not a WeakMap over a million specs: its entries cost the garbage collector dearly.)
+ * when first asked for (against an up-to-date lock read by the fast reader, never); the End
+ * specs, shared by every node and algorithm, keep theirs per algorithm. (Not a WeakMap over a
+ * million specs: its entries cost the garbage collector dearly.)
  */
 function lockKey(s: SidSpec, algo: number): string {
   if (s.algorithm === algo) return (s.lockKey ??= flatKey(algo, s.key));

@@ -1,6 +1,7 @@
 /**
  * A fast reader for lock files as serializeLock writes them: one pass over the bytes that builds
- * the lock's maps directly, and one that hashes the compact JSON (the text without the
+ * the lock's maps directly (each owner's function keys kept as ranges of the bytes, see
+ * lock-functions.ts), and one that hashes the compact JSON (the text without the
  * whitespace between tokens and without the digest member) for the digest check. JSON.parse of a
  * pretty-printed lock of a million SIDs, then JSON.stringify again for the digest, costs several
  * times more.
@@ -23,6 +24,9 @@ const fail = (): never => {
 };
 
 const QUOTE = 0x22;
+/** What stringRest found in a string: an escape, a byte of a multi-byte character. */
+const ESCAPED = 1;
+const WIDE = 2;
 const BACKSLASH = 0x5c;
 const KINDS = new Set(["group", "node", "function"]);
 
@@ -76,12 +80,12 @@ export function readLockFast(bytes: Uint8Array): Lock | undefined {
     if (b[i] !== ch) fail();
     i++;
   };
-  const str = (): string => {
-    ws();
-    if (b[i] !== QUOTE) fail();
-    const open = i++;
-    let plain = true;
-    let escaped = false;
+  /**
+   * Move the cursor over the rest of a string, from inside it to just after its closing quote;
+   * gives ESCAPED and WIDE (a byte of a multi-byte character) for what it holds.
+   */
+  const stringRest = (): number => {
+    let seen = 0;
     for (;;) {
       if (i >= n) fail();
       const c = b[i]!;
@@ -90,12 +94,20 @@ export function readLockFast(bytes: Uint8Array): Lock | undefined {
       i++;
       if (c === BACKSLASH) {
         i++;
-        escaped = true;
-      } else if (c >= 0x80) plain = false;
+        seen |= ESCAPED;
+      } else if (c >= 0x80) seen |= WIDE;
     }
-    const end = i++;
-    if (escaped) return JSON.parse(b.toString("utf8", open, end + 1)) as string;
-    return plain ? latin1(b, open + 1, end) : b.toString("utf8", open + 1, end);
+    i++;
+    return seen;
+  };
+  const str = (): string => {
+    ws();
+    if (b[i] !== QUOTE) fail();
+    const open = i++;
+    const seen = stringRest();
+    const end = i - 1;
+    if (seen & ESCAPED) return JSON.parse(b.toString("utf8", open, end + 1)) as string;
+    return seen === 0 ? latin1(b, open + 1, end) : b.toString("utf8", open + 1, end);
   };
   /** Set by hexNumber when the value has more than 13 hex digits. */
   let bigValue: bigint | undefined;
@@ -204,18 +216,8 @@ export function readLockFast(bytes: Uint8Array): Lock | undefined {
           let rest = keyStart;
           if (digits > 0 && digits <= 3 && (digits === 1 || b[keyStart] !== 0x30) && b[i] === 0x7c) rest = ++i;
           else plain = false;
-          for (;;) {
-            if (i >= n) fail();
-            const c = b[i]!;
-            if (c === QUOTE) break;
-            if (c < 0x20) fail();
-            i++;
-            if (c === BACKSLASH) {
-              i++;
-              plain = false;
-            } else if (c >= 0x80) plain = false;
-          }
-          const end = i++;
+          if (stringRest() !== 0) plain = false;
+          const end = i - 1;
           punct(0x3a);
           const v = hexNumber();
           store.push(keyStart, rest, end, algo, v, v < 0 ? bigValue : undefined);

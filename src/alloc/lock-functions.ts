@@ -11,6 +11,7 @@
  * kept this way; the fast reader gives an owner with any other key, or the same key twice, an
  * ordinary Map.
  */
+import { grownColumn } from "../sid/columns.js";
 import { smallBigInt } from "./lock-model.js";
 
 /** FNV-1a over a string's UTF-16 code units (for the plain keys, their bytes). */
@@ -108,11 +109,7 @@ export class FunctionStore {
 
   private grow(): void {
     const cap = this.rest.length * 2;
-    const more = <T extends Int32Array | Float64Array>(a: T): T => {
-      const b = new (a.constructor as new (n: number) => T)(cap);
-      b.set(a);
-      return b;
-    };
+    const more = <T extends Int32Array | Float64Array>(a: T): T => grownColumn(a, cap);
     this.keyStart = more(this.keyStart);
     this.rest = more(this.rest);
     this.end = more(this.end);
@@ -185,6 +182,39 @@ export class FunctionStore {
     return -1;
   }
 
+  /** Where entry i's whole key lies in the bytes: [keyStartAt(i), keyEndAt(i)). */
+  keyStartAt(i: number): number {
+    return this.keyStart[i]!;
+  }
+  keyEndAt(i: number): number {
+    return this.end[i]!;
+  }
+
+  /** Entry i's value as a number, or -1 when it has 53 bits or more (valueAt gives it). */
+  numberAt(i: number): number {
+    return this.value[i]!;
+  }
+
+  /** True when the whole keys of entries [from, to) rise strictly, byte by byte. */
+  risingKeys(from: number, to: number): boolean {
+    const b = this.bytes;
+    for (let e = from + 1; e < to; e++) {
+      const a0 = this.keyStart[e - 1]!;
+      const a1 = this.end[e - 1]!;
+      const b0 = this.keyStart[e]!;
+      const b1 = this.end[e]!;
+      let j = 0;
+      while (a0 + j < a1 && b0 + j < b1 && b[a0 + j] === b[b0 + j]) j++;
+      // equal up to the shorter one: the shorter comes first
+      if (a0 + j === a1) {
+        if (b0 + j === b1) return false;
+        continue;
+      }
+      if (b0 + j === b1 || b[a0 + j]! > b[b0 + j]!) return false;
+    }
+    return true;
+  }
+
   valueAt(i: number): bigint {
     const v = this.value[i]!;
     return v >= 0 ? smallBigInt(v) : this.big.get(i)!;
@@ -228,6 +258,15 @@ export class LockedFunctions extends Map<string, bigint> {
     if (this.filled) return super.get(`${algo}|${key}`);
     const e = this.store.find(this.from, this.to, algo, key, hash);
     return e < 0 ? undefined : this.store.valueAt(e);
+  }
+
+  /**
+   * True when the entries, unchanged since they were read, are in the order the lock's text
+   * lists them (its keys sorted: for these plain ASCII keys, the order of their bytes), so that
+   * a writer may copy them from the bytes.
+   */
+  inTextOrder(): boolean {
+    return !this.filled && this.store.risingKeys(this.from, this.to);
   }
 
   /** How many keys each algorithm has, without making the Map. */

@@ -6,9 +6,11 @@
 import { createHash } from "node:crypto";
 import type { Diagnostic } from "../plan/diagnostic.js";
 import { readLockFast } from "./lock-fast.js";
+import { serializeLockBytes, sortedRetired } from "./lock-write.js";
 import { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock-model.js";
 
 export { LOCK_SCHEMA_ID, type Lock, type RetiredValue, hexDigit, smallBigInt } from "./lock-model.js";
+export { serializeLockBytes } from "./lock-write.js";
 
 export function emptyLock(plan: string, layout: string): Lock {
   return { plan, layout, groups: new Map(), nodes: new Map(), functions: new Map(), retired: [] };
@@ -31,10 +33,6 @@ export function lockBody(lock: Lock): Record<string, unknown> {
   };
 }
 
-function cmp(a: string, b: string): number {
-  return a < b ? -1 : a > b ? 1 : 0;
-}
-
 function digestOf(b: Record<string, unknown>): string {
   return "sha256:" + createHash("sha256").update(JSON.stringify(b)).digest("hex");
 }
@@ -42,118 +40,12 @@ function digestOf(b: Record<string, unknown>): string {
 /**
  * Deterministic text of a lock (same lock, same bytes), ending in a newline: exactly
  * `JSON.stringify({ ...lockBody(lock), digest }, null, 2) + "\n"`, where the digest is the SHA-256 of
- * `JSON.stringify(lockBody(lock))`. Written directly, the two forms side by side, because a lock of
- * a million SIDs would otherwise be turned into objects and stringified twice (the readable form
- * is `body`; tests compare the two on random locks).
+ * `JSON.stringify(lockBody(lock))`. serializeLockBytes (lock-write.ts) writes its bytes directly,
+ * the two forms side by side, because a lock of a million SIDs would otherwise be turned into
+ * objects and stringified twice (the readable form is `body`; tests compare the two on random locks).
  */
 export function serializeLock(lock: Lock): string {
-  const hash = createHash("sha256");
-  const pretty: string[] = [];
-  let compact = "";
-  // the compact form goes to the hash in pieces of about a megabyte
-  const flush = (force: boolean) => {
-    if (force || compact.length > 1 << 20) {
-      hash.update(compact);
-      compact = "";
-    }
-  };
-  const q = JSON.stringify;
-  /** An object of string keys to already-JSON values, in JSON.stringify's key order; `inner` is the indent of its members. */
-  const object = (keys: readonly string[], value: (k: string) => { pretty: string; compact: string }, inner: string) => {
-    if (keys.length === 0) {
-      pretty.push("{}");
-      compact += "{}";
-      return;
-    }
-    pretty.push("{");
-    compact += "{";
-    jsonKeyOrder(keys).forEach((k, i) => {
-      const v = value(k);
-      pretty.push(`${i ? "," : ""}\n${inner}${q(k)}: ${v.pretty}`);
-      compact += `${i ? "," : ""}${q(k)}:${v.compact}`;
-      flush(false);
-    });
-    pretty.push(`\n${inner.slice(2)}}`);
-    compact += "}";
-  };
-  const hexValue = (v: bigint) => {
-    const t = `"${hex(v)}"`;
-    return { pretty: t, compact: t };
-  };
-  pretty.push(`{\n  "schema": ${q(LOCK_SCHEMA_ID)},\n  "plan": ${q(lock.plan)},\n  "layout": ${q(lock.layout)},\n  "groups": `);
-  compact += `{"schema":${q(LOCK_SCHEMA_ID)},"plan":${q(lock.plan)},"layout":${q(lock.layout)},"groups":`;
-  object([...lock.groups.keys()].sort(), (k) => hexValue(lock.groups.get(k)!), "    ");
-  pretty.push(`,\n  "nodes": `);
-  compact += `,"nodes":`;
-  object(
-    [...lock.nodes.keys()].sort(),
-    (k) => {
-      const n = lock.nodes.get(k)!;
-      return { pretty: `{\n      "place": ${q(n.place)},\n      "value": "${hex(n.value)}"\n    }`, compact: `{"place":${q(n.place)},"value":"${hex(n.value)}"}` };
-    },
-    "    ",
-  );
-  pretty.push(`,\n  "functions": `);
-  compact += `,"functions":`;
-  const owners = jsonKeyOrder([...lock.functions.keys()].sort());
-  if (owners.length === 0) {
-    pretty.push("{}");
-    compact += "{}";
-  } else {
-    pretty.push("{");
-    compact += "{";
-    owners.forEach((owner, i) => {
-      const m = lock.functions.get(owner)!;
-      pretty.push(`${i ? "," : ""}\n    ${q(owner)}: `);
-      compact += `${i ? "," : ""}${q(owner)}:`;
-      object([...m.keys()].sort(), (k) => hexValue(m.get(k)!), "      ");
-    });
-    pretty.push("\n  }");
-    compact += "}";
-  }
-  const retired = sortedRetired(lock.retired);
-  pretty.push(`,\n  "retired": `);
-  compact += `,"retired":`;
-  if (retired.length === 0) {
-    pretty.push("[]");
-    compact += "[]";
-  } else {
-    pretty.push("[");
-    compact += "[";
-    retired.forEach((r, i) => {
-      pretty.push(`${i ? "," : ""}\n    {\n      "kind": ${q(r.kind)},\n      "space": ${q(r.space)},\n      "value": "${hex(r.value)}",\n      "was": ${q(r.was)}\n    }`);
-      compact += `${i ? "," : ""}{"kind":${q(r.kind)},"space":${q(r.space)},"value":"${hex(r.value)}","was":${q(r.was)}}`;
-      flush(false);
-    });
-    pretty.push("\n  ]");
-    compact += "]";
-  }
-  compact += "}";
-  flush(true);
-  pretty.push(`,\n  "digest": ${q("sha256:" + hash.digest("hex"))}\n}\n`);
-  return pretty.join("");
-}
-
-/**
- * Keys in the order JSON.stringify prints an object made from them in this order: array-index
- * keys ("0", "17") first, ascending as numbers, then the others as given (ECMA-262
- * OrdinaryOwnPropertyKeys).
- */
-function jsonKeyOrder(keys: readonly string[]): string[] {
-  const index: string[] = [];
-  const other: string[] = [];
-  for (const k of keys) (isArrayIndex(k) ? index : other).push(k);
-  if (index.length === 0) return other;
-  index.sort((a, b) => Number(a) - Number(b));
-  return [...index, ...other];
-}
-
-function isArrayIndex(k: string): boolean {
-  return /^(0|[1-9][0-9]*)$/.test(k) && Number(k) < 4294967295;
-}
-
-function sortedRetired(list: readonly RetiredValue[]): RetiredValue[] {
-  return [...list].sort((a, b) => cmp(a.kind, b.kind) || cmp(a.space, b.space) || (a.value < b.value ? -1 : a.value > b.value ? 1 : 0) || cmp(a.was, b.was));
+  return serializeLockBytes(lock).toString("utf8");
 }
 
 export type LockRead = { ok: true; lock: Lock } | { ok: false; diagnostics: Diagnostic[] };

@@ -12,6 +12,7 @@
  */
 import type { Prefix } from "../net/prefix.js";
 import { toWords } from "../net/uint128.js";
+import { grownColumn } from "../sid/columns.js";
 import { FLAVOR_BIT, PackedSidTable } from "../sid/packed.js";
 import type { LocatorEntry, SidContext, SidStructure } from "../sid/table.js";
 
@@ -272,11 +273,7 @@ export class SidRowSink {
   reserve(n: number): void {
     if (n <= this.capacity) return;
     const cap = Math.max(n, this.capacity * 2, 1024);
-    const grow = <T extends Uint32Array | Int32Array | Uint8Array | Float64Array>(a: T): T => {
-      const b = new (a.constructor as new (n: number) => T)(cap);
-      b.set(a);
-      return b;
-    };
+    const grow = <T extends Uint32Array | Int32Array | Uint8Array | Float64Array>(a: T): T => grownColumn(a, cap);
     this.w0 = grow(this.w0);
     this.w1 = grow(this.w1);
     this.w2 = grow(this.w2);

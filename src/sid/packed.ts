@@ -14,6 +14,7 @@ import { HEX_DIGIT, parsePrefixBytes, parseWordsBytes } from "../net/fast.js";
 import { Prefix } from "../net/prefix.js";
 import { formatWords, parseAddr, parsePrefixParts } from "../net/text.js";
 import { fromWords, toWords } from "../net/uint128.js";
+import { grownColumn } from "./columns.js";
 import type { LocatorEntry, NodeTable, SidContext, SidEntry, SidStructure, SidTable } from "./table.js";
 import { formatContext, parseContext } from "./table.js";
 import { OPTIONAL_COLUMNS, REQUIRED_COLUMNS, type TableProblem, sidKeyFromContext } from "./table-read.js";
@@ -424,11 +425,7 @@ export class PackedSidTable {
   private pushPrefix(p: Prefix, a: number, b: number, c: number, d: number): number {
     const id = this.prefixes.length;
     if (id >= this.plen.length) {
-      const grow = <T extends Uint32Array | Uint8Array>(a: T): T => {
-        const b = new (a.constructor as new (n: number) => T)(a.length * 2);
-        b.set(a);
-        return b;
-      };
+      const grow = <T extends Uint32Array | Uint8Array>(a: T): T => grownColumn(a, a.length * 2);
       this.pw0 = grow(this.pw0);
       this.pw1 = grow(this.pw1);
       this.pw2 = grow(this.pw2);

@@ -9,7 +9,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { readLockFast } from "../../src/alloc/lock-fast.js";
 import { LockedFunctions, keyHash, keyHashBytes } from "../../src/alloc/lock-functions.js";
-import { type Lock, parseLockReadable, serializeLock } from "../../src/alloc/lock.js";
+import { type Lock, lockBody, parseLockReadable, serializeLock, serializeLockBytes } from "../../src/alloc/lock.js";
 
 const rest = fc.oneof(
   { weight: 6, arbitrary: fc.constantFrom("End|plain", "End|PSP+USD", "End.X|r2||protected", "End.X|r2|ge-0|unprotected", "End.DT4|blue", "End.DX2|wire|ge-1|", "") },
@@ -39,6 +39,11 @@ function compactText(t: string): string {
     }
   }
   return out;
+}
+
+/** The lock with each owner's functions as an ordinary Map (made from what the reader gave). */
+function plainMaps(lock: Lock): Lock {
+  return { ...lock, functions: new Map([...lock.functions].map(([owner, m]) => [owner, new Map(m)])) };
 }
 
 function readBoth(lock: Lock): { fast: Lock; ref: Lock } {
@@ -134,5 +139,47 @@ describe("LockedFunctions (the fast reader's functions) against the readable rea
     expect(m).not.toBeInstanceOf(LockedFunctions);
     expect([...m]).toEqual([...new Map(Object.entries(JSON.parse(withDigest).functions.r1 as Record<string, string>).map(([k, v]) => [k, BigInt(v)]))]);
     expect(m.get("0|End|plain")).toBe(7n);
+  });
+  it("is written back by copying its bytes when unchanged and in order, and the ordinary way otherwise: the bytes of JSON.stringify either way", () => {
+    /** The readable reference writer: build the object, stringify it twice. */
+    const reference = (lock: Lock) => {
+      const b = lockBody(lock);
+      return JSON.stringify({ ...b, digest: "sha256:" + createHash("sha256").update(JSON.stringify(b)).digest("hex") }, null, 2) + "\n";
+    };
+    fc.assert(
+      fc.property(owners(plainKey), fc.nat(), fc.constantFrom("as-read", "reordered", "changed"), (fns, pick, how) => {
+        let text = serializeLock(lockWith(fns));
+        if (how === "reordered") {
+          // two members of one owner swapped, the digest made again: the same lock, its keys out of order
+          const lines = text.split("\n");
+          const members = lines.map((l, k) => (/^ {6}"/.test(l) && /^ {6}"/.test(lines[k + 1] ?? "") ? k : -1)).filter((k) => k >= 0);
+          if (members.length === 0) return;
+          const k = members[pick % members.length]!;
+          const a = lines[k]!.replace(/,$/, "");
+          const b = lines[k + 1]!.replace(/,$/, "");
+          lines[k] = b + ",";
+          lines[k + 1] = lines[k + 1]!.endsWith(",") ? a + "," : a;
+          const edited = lines.join("\n");
+          const compact = compactText(edited.slice(0, edited.lastIndexOf(',\n  "digest"'))) + "}";
+          text = edited.replace(/"sha256:[0-9a-f]+"/, JSON.stringify("sha256:" + createHash("sha256").update(compact).digest("hex")));
+        }
+        const fast = readLockFast(Buffer.from(text));
+        expect(fast).toBeDefined();
+        if (!fast) return;
+        if (how === "as-read") for (const m of fast.functions.values()) if (m.size > 1) expect((m as LockedFunctions).inTextOrder()).toBe(true);
+        if (how === "changed") {
+          const first = [...fast.functions.values()][pick % Math.max(1, fast.functions.size)];
+          (first as Map<string, bigint> | undefined)?.set(`0|End|added-${pick}`, BigInt(pick));
+        }
+        // written first: the reference below reads every Map, which fills them
+        const got = serializeLock(fast);
+        const gotBytes = serializeLockBytes(fast);
+        const want = reference(plainMaps(fast));
+        expect(got).toBe(want);
+        expect(gotBytes.equals(Buffer.from(want))).toBe(true);
+        if (how === "as-read") expect(want).toBe(text);
+      }),
+      { numRuns: 300 },
+    );
   });
 });

@@ -1,5 +1,5 @@
 /** `sidcarve allocate PLAN`: allocate, write the lock atomically, print the summary. */
-import { type Lock, serializeLock } from "../../alloc/lock.js";
+import { type Lock, serializeLockBytes } from "../../alloc/lock.js";
 import { allocationSummary } from "../../emit/summary.js";
 import type { Io } from "../context.js";
 import type { Plan } from "../../plan/model.js";
@@ -25,7 +25,7 @@ export async function runAllocate(planFile: string, flags: AllocateFlags, io: Io
 
 function allocateHolding(plan: Plan, lock: Lock | undefined, bytes: Buffer | undefined, lockFile: string, flags: AllocateFlags, io: Io): number {
   const a = allocateOrFail(plan, lock, { allowRenumber: flags.allowRenumber === true });
-  const newText = serializeLock(a.lock);
+  const newText = serializeLockBytes(a.lock);
   const sids = a.packed.count;
   io.out(`plan ${plan.name}: ${a.packed.nodeNames.length} nodes, ${sids} SIDs (${a.added} new), ${a.retiredNow.length} values retired\n`);
   for (const m of a.moves) io.out(`renumbered ${m.what}: ${m.from} -> ${m.to} (${m.reason})\n`);

@@ -1,5 +1,5 @@
 /** `sidcarve release PLAN (--all | NAME...)`: free retired values so they can be handed out again. */
-import { type Lock, releaseRetired, serializeLock } from "../../alloc/lock.js";
+import { type Lock, releaseRetired, serializeLockBytes } from "../../alloc/lock.js";
 import type { Io } from "../context.js";
 import { UsageError, readBytesIfExists, sameContent, withBusyMarker, writeAtomic } from "../io.js";
 import { loadPlanAndLock, lockPathFor } from "../plan-files.js";
@@ -27,7 +27,7 @@ function releaseHolding(lock: Lock | undefined, bytes: Buffer | undefined, lockF
   }
   for (const r of released) io.out(`released ${r.kind} value 0x${r.value.toString(16)} in ${JSON.stringify(r.space)} (was ${r.was})\n`);
   if (!sameContent(readBytesIfExists(lockFile), bytes)) throw new UsageError(`${lockFile}: the lock changed while this run was working; nothing was written, run again`);
-  writeAtomic(lockFile, [serializeLock(next)]);
+  writeAtomic(lockFile, [serializeLockBytes(next)]);
   io.out(`lock written to ${lockFile}\n`);
   return 0;
 }
