@@ -42,7 +42,7 @@ function digestOf(b: Record<string, unknown>): string {
  * `JSON.stringify({ ...lockBody(lock), digest }, null, 2) + "\n"`, where the digest is the SHA-256 of
  * `JSON.stringify(lockBody(lock))`. serializeLockBytes (lock-write.ts) writes its bytes directly,
  * the two forms side by side, because a lock of a million SIDs would otherwise be turned into
- * objects and stringified twice (the readable form is `body`; tests compare the two on random locks).
+ * objects and stringified twice (the readable form is lockBody; tests compare the two on random locks).
  */
 export function serializeLock(lock: Lock): string {
   return serializeLockBytes(lock).toString("utf8");
