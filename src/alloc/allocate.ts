@@ -12,7 +12,7 @@ import { type Diagnostic, quote } from "../plan/diagnostic.js";
 import type { Block, Layout, Level, Plan, PlanNode, PoolKind, ValueRange } from "../plan/model.js";
 import { POOL_KINDS } from "../plan/model.js";
 import { inRanges, levelCapacity, rangeSize } from "../plan/normalize.js";
-import { LockedFunctions, keyHash } from "./lock-functions.js";
+import { LockedFunctions, countsByAlgorithm, keyHash } from "./lock-functions.js";
 import { type Lock, type RetiredValue, emptyLock } from "./lock.js";
 import { bitOrder, nthValue } from "./order.js";
 import { type RowSource, type SidRow, SidRowSink, setSidWords } from "./sid-rows.js";
@@ -324,7 +324,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const lockedValues = fast ? specs.map((s) => fast.lookup(algo, s.key, (s.keyHash ??= keyHash(s.key)))) : specs.map((_, si) => lockedFns.get(keyOf(si)));
       let hits = 0;
       for (const v of lockedValues) if (v !== undefined) hits++;
-      if (hits < ((lockedPerAlgo ??= fast ? fast.countsByAlgorithm() : lockedCounts(lockedFns)).get(algo) ?? 0)) {
+      if (hits < ((lockedPerAlgo ??= countsByAlgorithm(lockedFns)).get(algo) ?? 0)) {
         const specKeys = new Set(specs.map((_, si) => keyOf(si)));
         const algoPrefix = `${algo}|`;
         for (const [k, v] of lockedFns) if (!specKeys.has(k) && k.startsWith(algoPrefix)) taken.add(v);
@@ -694,16 +694,6 @@ function assignLevel(
     taken.add(found);
   }
   return out;
-}
-
-/** How many keys of an owner's locked functions belong to each algorithm (keys are `algorithm|...`). */
-function lockedCounts(fns: ReadonlyMap<string, bigint>): Map<number, number> {
-  const counts = new Map<number, number>();
-  for (const k of fns.keys()) {
-    const a = Number(k.slice(0, k.indexOf("|")));
-    counts.set(a, (counts.get(a) ?? 0) + 1);
-  }
-  return counts;
 }
 
 /**

@@ -239,6 +239,18 @@ export class FunctionStore {
   }
 }
 
+/**
+ * How many keys of an owner's locked functions belong to each algorithm (keys are
+ * `algorithm|...`); for the fast reader's functions, from the store, without making the Map.
+ */
+export function countsByAlgorithm(fns: ReadonlyMap<string, bigint>): Map<number, number> {
+  const counts = new Map<number, number>();
+  const add = (a: number) => counts.set(a, (counts.get(a) ?? 0) + 1);
+  if (fns instanceof LockedFunctions && !fns.isFilled) for (let i = fns.from; i < fns.to; i++) add(fns.store.algorithmAt(i));
+  else for (const k of fns.keys()) add(Number(k.slice(0, k.indexOf("|"))));
+  return counts;
+}
+
 /** One owner's locked functions: entries [from, to) of a FunctionStore, as a Map made when first used as one. */
 export class LockedFunctions extends Map<string, bigint> {
   private filled = false;
@@ -269,21 +281,9 @@ export class LockedFunctions extends Map<string, bigint> {
     return !this.filled && this.store.risingKeys(this.from, this.to);
   }
 
-  /** How many keys each algorithm has, without making the Map. */
-  countsByAlgorithm(): Map<number, number> {
-    const counts = new Map<number, number>();
-    if (this.filled) {
-      for (const k of super.keys()) {
-        const a = Number(k.slice(0, k.indexOf("|")));
-        counts.set(a, (counts.get(a) ?? 0) + 1);
-      }
-      return counts;
-    }
-    for (let i = this.from; i < this.to; i++) {
-      const a = this.store.algorithmAt(i);
-      counts.set(a, (counts.get(a) ?? 0) + 1);
-    }
-    return counts;
+  /** True once the Map has been made (it may have changed since: its entries are then the Map's). */
+  get isFilled(): boolean {
+    return this.filled;
   }
 
   private fill(): void {

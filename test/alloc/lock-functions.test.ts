@@ -8,7 +8,7 @@ import { createHash } from "node:crypto";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { readLockFast } from "../../src/alloc/lock-fast.js";
-import { LockedFunctions, keyHash, keyHashBytes } from "../../src/alloc/lock-functions.js";
+import { LockedFunctions, countsByAlgorithm, keyHash, keyHashBytes } from "../../src/alloc/lock-functions.js";
 import { type Lock, lockBody, parseLockReadable, serializeLock, serializeLockBytes } from "../../src/alloc/lock.js";
 
 const rest = fc.oneof(
@@ -79,7 +79,8 @@ describe("LockedFunctions (the fast reader's functions) against the readable rea
           expect(lf.size).toBe(want.size);
           const counts = new Map<number, number>();
           for (const k of want.keys()) counts.set(Number(k.split("|")[0]), (counts.get(Number(k.split("|")[0])) ?? 0) + 1);
-          expect(lf.countsByAlgorithm()).toEqual(counts);
+          expect(countsByAlgorithm(lf)).toEqual(counts);
+          expect(lf.isFilled).toBe(false);
           for (const k of [...want.keys(), ...probes]) {
             const bar = k.indexOf("|");
             const algo = Number(k.slice(0, bar));
@@ -90,6 +91,8 @@ describe("LockedFunctions (the fast reader's functions) against the readable rea
           }
           // filled, it is the reference Map, in the same order; lookups still agree
           expect([...lf]).toEqual([...want]);
+          expect(lf.isFilled).toBe(true);
+          expect(countsByAlgorithm(lf)).toEqual(counts);
           for (const k of want.keys()) expect(lf.lookup(Number(k.split("|")[0]), k.slice(k.indexOf("|") + 1), 0)).toBe(want.get(k));
         }
       }),
