@@ -270,8 +270,10 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   // A service on an algorithm its node does not run would silently get no SID: refuse it.
   for (const n of plan.nodes) {
     for (const sp of specsFor.get(n.name) ?? []) {
-      if (sp.algorithm !== undefined && !n.algorithms.includes(sp.algorithm)) {
-        diags.push({ code: "alloc/algorithm", message: `${sp.behavior} ${quote(sp.key.split("|").slice(1).filter(Boolean).join(" "))} on ${n.name} uses algorithm ${sp.algorithm}, which ${n.name} does not run (it runs ${n.algorithms.join(", ")}); add the algorithm to the node or move the service`, location: plan.locate(sp.at) });
+      if (sp.algos === undefined) continue;
+      for (const a of sp.algos) {
+        if (n.algorithms.includes(a)) continue;
+        diags.push({ code: "alloc/algorithm", message: `${sp.behavior} ${quote(sp.key.split("|").slice(1).filter(Boolean).join(" "))} on ${n.name} uses algorithm ${a}, which ${n.name} does not run (it runs ${n.algorithms.join(", ")}); add the algorithm to the node or move the service`, location: plan.locate(sp.at) });
       }
     }
   }
@@ -308,7 +310,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const carve: Carve = { L, locator: locEntry, first: locator.first, words: toWords(locator.first), fnShift: 128 - L.blockBits - L.nodeBits - L.functionBits };
       const firstEnd = endSpecs(plan, algo)[0]?.key;
       // Two-C-SID layouts: the first End SID is the node's global C-SID alone (no local C-SID).
-      const specs = (anycastName ? endSpecs(plan, algo) : (specsFor.get(owner) ?? []).filter((s) => s.algorithm === algo || s.algorithm === undefined)).map((s) =>
+      const specs = (anycastName ? endSpecs(plan, algo) : (specsFor.get(owner) ?? []).filter((s) => s.algos === undefined || s.algos.includes(algo))).map((s) =>
         L.kind === "compressed" && L.twoCsid && s.key === firstEnd ? s.withoutFunction() : s,
       );
       const space = `${owner}|${algo}`;
@@ -504,7 +506,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   // its own) and its anycast groups' SIDs of those algorithms
   let expected = 0;
   for (const n of plan.nodes) {
-    for (const sp of specsFor.get(n.name) ?? []) expected += sp.algorithm === undefined ? n.algorithms.length : 1;
+    for (const sp of specsFor.get(n.name) ?? []) expected += sp.algos === undefined ? n.algorithms.length : sp.algos.length;
     for (const an of n.anycast) for (const r of anycastTables.get(an)?.rows ?? []) if (n.algorithms.includes(r.algorithm)) expected++;
   }
   sink.reserve(expected);
@@ -703,9 +705,18 @@ function assignLevel(
  * million specs: its entries cost the garbage collector dearly.)
  */
 function lockKey(s: SidSpec, algo: number): string {
-  if (s.algorithm === algo) return (s.lockKey ??= flatKey(algo, s.key));
+  const algos = s.algos;
+  if (algos !== undefined && algos[0] === algo) return (s.lockKey ??= flatKey(algo, s.key));
+  // the others by their place in the spec's algorithms (End specs: by the algorithm itself)
   const byAlgo = (s.lockKeys ??= []);
-  return (byAlgo[algo] ??= flatKey(algo, s.key));
+  const k = algos === undefined ? algo : algos.indexOf(algo);
+  return (byAlgo[k] ??= flatKey(algo, s.key));
+}
+
+/** Shared one-algorithm lists for the specs of one algorithm (a list each would be a million small arrays). */
+const ONE_ALGO: (readonly number[])[] = [];
+function oneAlgo(a: number): readonly number[] {
+  return (ONE_ALGO[a] ??= Object.freeze([a]));
 }
 
 /**
@@ -723,9 +734,9 @@ function flatKey(algo: number, key: string): string {
  * objects that gained fields one by one would make those reads slow).
  */
 class SidSpec implements RowSource {
-  /** `algorithm|key` when the spec has one algorithm (see lockKey), made when first asked for. */
+  /** `algorithm|key` for the first of the spec's algorithms (see lockKey), made when first asked for. */
   lockKey: string | undefined = undefined;
-  /** lockKey's per-algorithm keys for specs of every algorithm. */
+  /** lockKey's keys for the spec's other algorithms (by place in `algos`; by algorithm for the End specs of every algorithm). */
   lockKeys: string[] | undefined = undefined;
   /** keyHash(key), for the fast reader's functions (LockedFunctions.lookup). */
   keyHash: number | undefined = undefined;
@@ -738,8 +749,8 @@ class SidSpec implements RowSource {
     readonly behavior: BehaviorName,
     readonly flavors: readonly Flavor[],
     readonly pool: PoolKind,
-    /** undefined: every algorithm of the node */
-    readonly algorithm: number | undefined,
+    /** The algorithms the SID is made for; undefined: every algorithm of the node. */
+    readonly algos: readonly number[] | undefined,
     readonly pinned: bigint | undefined,
     readonly context: SidContext,
     readonly at: (string | number)[],
@@ -750,7 +761,7 @@ class SidSpec implements RowSource {
 
   /** The same SID without a function field (in two-C-SID layouts the first End SID is the node's global C-SID alone). */
   withoutFunction(): SidSpec {
-    const c = new SidSpec(this.key, this.behavior, this.flavors, this.pool, this.algorithm, this.pinned, this.context, this.at, true, this.rowId);
+    const c = new SidSpec(this.key, this.behavior, this.flavors, this.pool, this.algos, this.pinned, this.context, this.at, true, this.rowId);
     c.keyHash = this.keyHash;
     return c;
   }
@@ -816,18 +827,11 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
         }
         mine.add(key);
         const pinned = prot === "protected" && variants.length === 2 ? me.pinnedProtected : prot === "protected" ? (me.pinnedProtected ?? me.pinned) : me.pinned;
-        // one context and plan path for the adjacency, shared by its SIDs of every algorithm
         // (object literals, not spreads: a spread of a temporary object costs about three times as much)
         const context: SidContext = me.iface ? { neighbor: peer.node, interface: me.iface, protection: prot, link: l.name } : { neighbor: peer.node, protection: prot, link: l.name };
         const at = ["links", l.index, "ends", l.ends.indexOf(me)];
-        const list = listOf(me.node);
-        // the key's hash once for the SIDs of every algorithm (they share the key)
-        const h = algos.length > 1 ? keyHash(key) : undefined;
-        for (const algo of algos) {
-          const spec = new SidSpec(key, "End.X", plan.adjacencyFlavors, "adjacency", algo, pinned, context, at);
-          spec.keyHash = h;
-          addTo(list, spec);
-        }
+        // one spec for the adjacency's SIDs of every algorithm (they share key, context and path)
+        if (algos.length > 0) addTo(listOf(me.node), new SidSpec(key, "End.X", plan.adjacencyFlavors, "adjacency", algos, pinned, context, at));
       }
     }
   }
@@ -836,19 +840,19 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     const behaviors: { b: BehaviorName; fam: string }[] =
       fams.length === 2 && v.mode === "combined" ? [{ b: "End.DT46", fam: "ipv4+ipv6" }] : fams.map((f) => ({ b: f === "ipv4" ? ("End.DT4" as const) : ("End.DT6" as const), fam: f }));
     // one spec per VRF and behaviour, shared by all its PEs (specs are never changed once made)
-    const specs = behaviors.map(({ b, fam }) => new SidSpec(`${b}|${v.name}`, b, NO_FLAVORS, "service", v.algorithm, undefined, { vrf: v.name, family: fam, ...(v.table !== undefined ? { table: String(v.table) } : {}) }, ["vrfs", i]));
+    const specs = behaviors.map(({ b, fam }) => new SidSpec(`${b}|${v.name}`, b, NO_FLAVORS, "service", oneAlgo(v.algorithm), undefined, { vrf: v.name, family: fam, ...(v.table !== undefined ? { table: String(v.table) } : {}) }, ["vrfs", i]));
     for (const pe of v.pes) for (const spec of specs) add(pe, spec);
     v.ces.forEach((c, j) => {
       const b: BehaviorName = c.family === "ipv4" ? "End.DX4" : "End.DX6";
       const context: SidContext = c.iface ? { vrf: v.name, ce: c.name, family: c.family, interface: c.iface } : { vrf: v.name, ce: c.name, family: c.family };
-      add(c.pe, new SidSpec(`${b}|${v.name}|${c.name}`, b, NO_FLAVORS, "service", v.algorithm, undefined, context, ["vrfs", i, "ces", j]));
+      add(c.pe, new SidSpec(`${b}|${v.name}|${c.name}`, b, NO_FLAVORS, "service", oneAlgo(v.algorithm), undefined, context, ["vrfs", i, "ces", j]));
     });
   });
   plan.l2.forEach((s, i) => {
     if (s.kind === "bridge") {
       const context = { "bridge-domain": s.name };
-      const unicast = new SidSpec(`End.DT2U|${s.name}`, "End.DT2U", NO_FLAVORS, "l2", s.algorithm, undefined, context, ["l2-services", i]);
-      const multicast = new SidSpec(`End.DT2M|${s.name}`, "End.DT2M", NO_FLAVORS, "l2", s.algorithm, undefined, context, ["l2-services", i]);
+      const unicast = new SidSpec(`End.DT2U|${s.name}`, "End.DT2U", NO_FLAVORS, "l2", oneAlgo(s.algorithm), undefined, context, ["l2-services", i]);
+      const multicast = new SidSpec(`End.DT2M|${s.name}`, "End.DT2M", NO_FLAVORS, "l2", oneAlgo(s.algorithm), undefined, context, ["l2-services", i]);
       for (const n of s.nodes) {
         add(n, unicast);
         add(n, multicast);
@@ -859,7 +863,7 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
         const context: Record<string, string> = { service: s.name };
         if (a.iface) context.interface = a.iface;
         if (a.vlan !== undefined) context.vlan = String(a.vlan);
-        add(a.node, new SidSpec(`${b}|${s.name}|${a.iface ?? ""}|${a.vlan ?? ""}`, b, NO_FLAVORS, "l2", s.algorithm, undefined, context, ["l2-services", i, "attachments", j]));
+        add(a.node, new SidSpec(`${b}|${s.name}|${a.iface ?? ""}|${a.vlan ?? ""}`, b, NO_FLAVORS, "l2", oneAlgo(s.algorithm), undefined, context, ["l2-services", i, "attachments", j]));
       });
     }
   });
@@ -867,10 +871,10 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
     const context: Record<string, string> = { policy: p.name };
     if (p.endpoint) context.endpoint = p.endpoint;
     if (p.color !== undefined) context.color = String(p.color);
-    add(p.node, new SidSpec(`${p.behavior}|${p.name}`, p.behavior, NO_FLAVORS, "binding", p.algorithm, undefined, context, ["policies", i]));
+    add(p.node, new SidSpec(`${p.behavior}|${p.name}`, p.behavior, NO_FLAVORS, "binding", oneAlgo(p.algorithm), undefined, context, ["policies", i]));
   });
   plan.tables.forEach((t, i) => {
-    const spec = new SidSpec(`End.T|${t.name}`, "End.T", t.flavors, "table", 0, undefined, { table: t.table !== undefined ? `${t.name}(${t.table})` : t.name }, ["tables", i]);
+    const spec = new SidSpec(`End.T|${t.name}`, "End.T", t.flavors, "table", oneAlgo(0), undefined, { table: t.table !== undefined ? `${t.name}(${t.table})` : t.name }, ["tables", i]);
     for (const n of t.nodes) add(n, spec);
   });
   return { byNode: out, all };

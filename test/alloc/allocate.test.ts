@@ -331,6 +331,18 @@ describe("refusals that keep a plan honest", () => {
     const obj = basePlan({ algorithms: [{ id: 0 }, { id: 128 }], nodes: [{ name: "r1", place: "north/quay", algorithms: [0] }, { name: "r2", place: "north/quay", algorithms: [0] }, { name: "r3", place: "north/mill", algorithms: [0] }, { name: "r4", place: "south/dock", algorithms: [0] }], vrfs: [{ name: "fast", pes: ["r1"], algorithm: 128 }] });
     expect(codes(obj)).toEqual(["alloc/algorithm"]);
   });
+  it("refuses a link whose algorithms one end does not run, once per end and missing algorithm", () => {
+    const obj = basePlan({
+      algorithms: [{ id: 0 }, { id: 128 }, { id: 129 }],
+      nodes: [{ name: "r1", place: "north/quay", algorithms: [0] }, { name: "r2", place: "north/quay", algorithms: [0, 128, 129] }, { name: "r3", place: "north/mill", algorithms: [0] }, { name: "r4", place: "south/dock", algorithms: [0] }],
+      links: [{ ends: ["r1", "r2"], algorithms: [0, 128, 129], protection: "both" }],
+    });
+    const r = allocate(planFrom(obj), undefined);
+    expect(r.ok).toBe(false);
+    const msgs = r.ok ? [] : r.diagnostics.map((d) => `${d.code} ${/on (\w+) uses algorithm (\d+)/.exec(d.message)?.slice(1).join(" ")}`);
+    // r1 lacks 128 and 129, for each of its two End.X SIDs (unprotected, protected); r2 runs all three
+    expect(msgs).toEqual(["alloc/algorithm r1 128", "alloc/algorithm r1 129", "alloc/algorithm r1 128", "alloc/algorithm r1 129"]);
+  });
 });
 
 describe("compressed layout defaults", () => {
