@@ -158,14 +158,19 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   }
 
   // ---- prefix of levels above the last, per place
+  // made once per place (every node asks, twice): group values are all known by now
+  const placeValues = new Map<string, bigint>();
   const placeValue = (place: string): bigint => {
     if (plan.levels.length === 1) return 0n;
+    const known = placeValues.get(place);
+    if (known !== undefined) return known;
     let v = 0n;
     const parts = place.split("/");
     for (let i = 0; i < parts.length; i++) {
       const path = parts.slice(0, i + 1).join("/");
       v = (v << BigInt(plan.levels[i]!.bits)) | (groupValues.get(path) ?? 0n);
     }
+    placeValues.set(place, v);
     return v;
   };
   const last = plan.levels[plan.levels.length - 1]!;

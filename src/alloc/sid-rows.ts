@@ -148,6 +148,9 @@ export class SidRowSink {
     this.reserve(this.count + rows.length);
     let lastLoc: LocatorEntry | undefined;
     let lastLocId = -1;
+    // neighbouring rows mostly share a shape (a node's End.X SIDs, its VRFs' SIDs)
+    let lastShape: RowShape | undefined;
+    let ids: ShapeIds | undefined;
     for (const r of rows) {
       const i = this.count++;
       this.w0[i] = r.w0;
@@ -160,7 +163,7 @@ export class SidRowSink {
         lastLocId = locIds.get(r.locator) ?? this.unlistedLocator(nodeId, r.locator, locIds);
       }
       this.locator[i] = lastLocId;
-      const ids = this.idsOf(r.shape);
+      if (ids === undefined || r.shape !== lastShape) ids = this.idsOf((lastShape = r.shape));
       this.behavior[i] = ids.behavior;
       this.flavorSet[i] = ids.flavorSet;
       this.flavorMask[i] = ids.mask;
