@@ -704,10 +704,11 @@ function assignLevel(
 }
 
 /**
- * The key of a SID in the lock: `algorithm|spec key`. A spec of one algorithm carries it, made
- * when first asked for (against an up-to-date lock read by the fast reader, never); the End
- * specs, shared by every node and algorithm, keep theirs per algorithm. (Not a WeakMap over a
- * million specs: its entries cost the garbage collector dearly.)
+ * The key of a SID in the lock: `algorithm|spec key`. A spec carries the key of its first
+ * algorithm, made when first asked for (against an up-to-date lock read by the fast reader,
+ * never), and those of its other algorithms (an adjacency's) in a list; the End specs, shared by
+ * every node and algorithm, keep theirs by algorithm. (Not a WeakMap over a million specs: its
+ * entries cost the garbage collector dearly.)
  */
 function lockKey(s: SidSpec, algo: number): string {
   const algos = s.algos;
