@@ -16,6 +16,7 @@ import { LockedFunctions, countsByAlgorithm, keyHash } from "./lock-functions.js
 import { type Lock, type RetiredValue, emptyLock } from "./lock.js";
 import { bitOrder, nthValue } from "./order.js";
 import { type RowSource, type SidRow, SidRowSink, setSidWords } from "./sid-rows.js";
+import { TakenValues } from "./taken.js";
 
 /** One value that would change, for the renumbering refusal and for the summary. */
 export interface Move {
@@ -274,9 +275,12 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   const sink = new SidRowSink(plan.name, allSpecs, (src, algo) => lockKey(src as SidSpec, algo));
   // A service on an algorithm its node does not run would silently get no SID: refuse it.
   for (const n of plan.nodes) {
-    for (const sp of specsFor.get(n.name) ?? []) {
+    const list = specsFor.get(n.name) ?? [];
+    for (let k = 0; k < list.length; k++) {
+      const sp = list[k]!;
       if (sp.algos === undefined) continue;
-      for (const a of sp.algos) {
+      for (let j = 0; j < sp.algos.length; j++) {
+        const a = sp.algos[j]!;
         if (n.algorithms.includes(a)) continue;
         diags.push({ code: "alloc/algorithm", message: `${sp.behavior} ${quote(sp.key.split("|").slice(1).filter(Boolean).join(" "))} on ${n.name} uses algorithm ${a}, which ${n.name} does not run (it runs ${n.algorithms.join(", ")}); add the algorithm to the node or move the service`, location: plan.locate(sp.at) });
       }
@@ -284,6 +288,12 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   }
   if (diags.length > 0) return { ok: false, diagnostics: diags, moves };
 
+  // reused from one locator to the next (see TakenValues): taken values, the locator's specs,
+  // their locked values and the values chosen
+  const taken = new TakenValues();
+  const specScratch: SidSpec[] = [];
+  const lockedScratch: (bigint | undefined)[] = [];
+  const chosenScratch: (bigint | undefined)[] = [];
   /** Allocate one owner's SIDs into rows (`keep`: rows of their own, for an anycast group shared by its members). */
   const allocOwner = (owner: string, place: string, algos: readonly number[], anycastName: string | undefined, keep: boolean): { locators: LocatorEntry[]; rows: SidRow[] } => {
     const locators: LocatorEntry[] = [];
@@ -300,7 +310,8 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
     const outValues: bigint[] = [];
     let sameAsLocked = true;
     let lockedPerAlgo: Map<number, number> | undefined;
-    for (const algo of algos) {
+    for (let ai = 0; ai < algos.length; ai++) {
+      const algo = algos[ai]!;
       const b = blockFor(place, algo);
       if (!b) {
         diags.push({ code: "alloc/no-block", message: `no block serves algorithm ${algo} for ${owner.replace("anycast:", "anycast group ")} in ${quote(place)}; add the algorithm to a block's algorithms or remove it from the node`, location: plan.locate(owner.startsWith("anycast:") ? ["anycast"] : ["nodes", nodeByName.get(owner)?.index ?? 0]) });
@@ -312,14 +323,21 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       const locator = new Prefix(b.prefix.first | (field << BigInt(128 - locLen)), locLen);
       const locEntry: LocatorEntry = { prefix: locator, algorithm: algo, block: b.name, anycast: anycastName ?? "" };
       locators.push(locEntry);
-      const carve: Carve = { L, locator: locEntry, first: locator.first, words: toWords(locator.first), fnShift: 128 - L.blockBits - L.nodeBits - L.functionBits };
+      // (the locator's address has no host bits: it is its first address)
+      const carve: Carve = { L, locator: locEntry, first: locator.addr, words: toWords(locator.addr), fnShift: 128 - L.blockBits - L.nodeBits - L.functionBits };
       const firstEnd = endSpecs(plan, algo)[0]?.key;
       // Two-C-SID layouts: the first End SID is the node's global C-SID alone (no local C-SID).
-      const specs = (anycastName ? endSpecs(plan, algo) : (specsFor.get(owner) ?? []).filter((s) => s.algos === undefined || s.algos.includes(algo))).map((s) =>
-        L.kind === "compressed" && L.twoCsid && s.key === firstEnd ? s.withoutFunction() : s,
-      );
+      const specs = specScratch;
+      specs.length = 0;
+      const own = anycastName ? endSpecs(plan, algo) : (specsFor.get(owner) ?? NO_SPECS);
+      const globalOnly = L.kind === "compressed" && L.twoCsid;
+      for (let k = 0; k < own.length; k++) {
+        const s = own[k]!;
+        if (s.algos !== undefined && !s.algos.includes(algo)) continue;
+        specs.push(globalOnly && s.key === firstEnd ? s.withoutFunction() : s);
+      }
       const space = `${owner}|${algo}`;
-      const taken = new Set<bigint>(retiredIn("function", space));
+      taken.reset(L.functionBits, retiredIn("function", space));
       // each spec's lock key, made when first asked for (made once per spec and algorithm)
       let keys: string[] | undefined;
       const keyOf = (si: number): string => (keys ??= specs.map((s) => lockKey(s, algo)))[si]!;
@@ -328,9 +346,15 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       // When every locked key of this algorithm is one of this locator's keys, none leaves: count
       // instead of building a set (the usual case, and a million SIDs deep).
       // each spec's locked value, looked up once
-      const lockedValues = fast ? specs.map((s) => fast.lookup(algo, s.key, (s.keyHash ??= keyHash(s.key)))) : specs.map((_, si) => lockedFns.get(keyOf(si)));
+      const lockedValues = lockedScratch;
+      lockedValues.length = 0;
       let hits = 0;
-      for (const v of lockedValues) if (v !== undefined) hits++;
+      for (let si = 0; si < specs.length; si++) {
+        const sp = specs[si]!;
+        const v = fast ? fast.lookup(algo, sp.key, (sp.keyHash ??= keyHash(sp.key))) : lockedFns.get(keyOf(si));
+        lockedValues.push(v);
+        if (v !== undefined) hits++;
+      }
       if (hits < ((lockedPerAlgo ??= countsByAlgorithm(lockedFns)).get(algo) ?? 0)) {
         const specKeys = new Set(specs.map((_, si) => keyOf(si)));
         const algoPrefix = `${algo}|`;
@@ -363,7 +387,9 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
       };
       // pass 1: pins and locked values. Each spec's value by its place in `specs` (a spec's key is
       // its own on a locator: the plan refuses repeated names, buildSpecs parallel links)
-      const chosen: (bigint | undefined)[] = new Array<bigint | undefined>(specs.length).fill(undefined);
+      const chosen = chosenScratch;
+      chosen.length = 0;
+      for (let si = 0; si < specs.length; si++) chosen.push(undefined);
       for (let si = 0; si < specs.length; si++) {
         const s = specs[si]!;
         if (s.noFunction) continue;
@@ -511,7 +537,8 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   // its own) and its anycast groups' SIDs of those algorithms
   let expected = 0;
   for (const n of plan.nodes) {
-    for (const sp of specsFor.get(n.name) ?? []) expected += sp.algos === undefined ? n.algorithms.length : sp.algos.length;
+    const list = specsFor.get(n.name) ?? NO_SPECS;
+    for (let k = 0; k < list.length; k++) expected += list[k]!.algos?.length ?? n.algorithms.length;
     for (const an of n.anycast) for (const r of anycastTables.get(an)?.rows ?? []) if (n.algorithms.includes(r.algorithm)) expected++;
   }
   sink.reserve(expected);
@@ -773,6 +800,8 @@ class SidSpec implements RowSource {
   }
 }
 
+const NO_SPECS: readonly SidSpec[] = Object.freeze([]);
+
 /** The flavour list of the service SIDs, shared (flavour lists are never changed once made). */
 const NO_FLAVORS: readonly Flavor[] = Object.freeze([]);
 
@@ -980,10 +1009,16 @@ interface SidShape {
 /** Shapes per layout, made once (a plan has a handful; a million SIDs would otherwise make a million copies). */
 const shapes = new WeakMap<Layout, Map<string, SidShape>>();
 
+/** shapeOf's last answer made by key, and what it was for (neighbouring specs mostly have the same shape: a node's End.X specs). */
+let lastShape: { L: Layout; behavior: BehaviorName; noFunction: boolean; flavors: readonly Flavor[]; shape: SidShape } | undefined;
+
 function shapeOf(L: Layout, s: SidSpec): SidShape {
   // the spec remembers its shape for the last layout asked (a spec is shared by many SIDs)
   if (s.shapeLayout === L) return s.shape!;
-  const shape = shapeByKey(L, s);
+  const last = lastShape;
+  let shape: SidShape;
+  if (last !== undefined && last.L === L && last.behavior === s.behavior && last.noFunction === s.noFunction && last.flavors === s.flavors) shape = last.shape;
+  else lastShape = { L, behavior: s.behavior, noFunction: s.noFunction, flavors: s.flavors, shape: (shape = shapeByKey(L, s)) };
   s.shapeLayout = L;
   s.shape = shape;
   return shape;

@@ -72,6 +72,28 @@ function rowOrder(a: SidRow, b: SidRow): number {
   );
 }
 
+/** Rows up to this many are sorted by insertion (a node's rows come nearly in order; Array.prototype.sort makes a copy per call). */
+const INSERTION_ROWS = 256;
+
+/** Sort `rows` by rowOrder, as rows.sort(rowOrder) does (both sorts are stable). */
+export function sortRows(rows: SidRow[]): void {
+  const n = rows.length;
+  if (n > INSERTION_ROWS) {
+    rows.sort(rowOrder);
+    return;
+  }
+  for (let i = 1; i < n; i++) {
+    const r = rows[i]!;
+    let j = i - 1;
+    if (rowOrder(rows[j]!, r) <= 0) continue;
+    while (j >= 0 && rowOrder(rows[j]!, r) > 0) {
+      rows[j + 1] = rows[j]!;
+      j--;
+    }
+    rows[j + 1] = r;
+  }
+}
+
 export class SidRowSink {
   private capacity = 0;
   private count = 0;
@@ -137,21 +159,23 @@ export class SidRowSink {
     const nodeId = this.nodeNames.length;
     this.nodeNames.push(name);
     const locIds = new Map<LocatorEntry, number>();
-    for (const l of locators) {
+    for (let k = 0; k < locators.length; k++) {
+      const l = locators[k]!;
       const id = this.locEntries.length;
       this.locNodes.push(nodeId);
       this.locEntries.push(l);
       this.locPrefixIds.push(this.prefixId(l.prefix));
       if (!locIds.has(l)) locIds.set(l, id);
     }
-    rows.sort(rowOrder);
+    sortRows(rows);
     this.reserve(this.count + rows.length);
     let lastLoc: LocatorEntry | undefined;
     let lastLocId = -1;
     // neighbouring rows mostly share a shape (a node's End.X SIDs, its VRFs' SIDs)
     let lastShape: RowShape | undefined;
     let ids: ShapeIds | undefined;
-    for (const r of rows) {
+    for (let k = 0; k < rows.length; k++) {
+      const r = rows[k]!;
       const i = this.count++;
       this.w0[i] = r.w0;
       this.w1[i] = r.w1;

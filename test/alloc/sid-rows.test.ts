@@ -4,7 +4,7 @@
  */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { type RowSource, SidRowSink, setSidWords } from "../../src/alloc/sid-rows.js";
+import { type RowSource, type SidRow, SidRowSink, setSidWords, sortRows } from "../../src/alloc/sid-rows.js";
 import { Prefix } from "../../src/net/prefix.js";
 import { ALL_ONES, toWords } from "../../src/net/uint128.js";
 
@@ -91,5 +91,29 @@ describe("SidRowSink", () => {
     expect(got[0]!.locator).toBe(loc.prefix);
     expect(got[2]!.sid).toBe(loc.prefix.first | (3n << 64n));
     expect(t.toTable().nodes.map((n) => [n.node, n.locators, n.sids.length])).toEqual([["fell-pe1", [loc], 3]]);
+  });
+});
+
+describe("sortRows", () => {
+  // the reference: Array.prototype.sort with the row order written out (address words, algorithm, behaviour name)
+  const refOrder = (a: SidRow, b: SidRow) => a.w0 - b.w0 || a.w1 - b.w1 || a.w2 - b.w2 || a.w3 - b.w3 || a.algorithm - b.algorithm || (a.shape.behavior < b.shape.behavior ? -1 : a.shape.behavior > b.shape.behavior ? 1 : 0);
+  const shape = (behavior: string) => ({ behavior, flavors: [], codepoint: undefined, structure: { block: 32, node: 16, function: 16, argument: 0 } });
+  const shapes = ["End", "End.X", "End.DT4"].map(shape);
+  // few distinct values, so that ties (equal rows) are common and stability shows; `id` tells equal rows apart
+  const row = fc.record({ w2: fc.integer({ min: 0, max: 3 }), w3: fc.integer({ min: 0, max: 5 }), algorithm: fc.constantFrom(0, 128), shape: fc.constantFrom(...shapes) });
+
+  it("gives the order (and, among equal rows, the input order) that Array.prototype.sort gives, below and above the insertion-sort size", () => {
+    fc.assert(
+      fc.property(fc.array(row, { maxLength: 300 }), fc.boolean(), (specs, nearlySorted) => {
+        let rows: SidRow[] = specs.map((s, id) => ({ w0: 0x5f000000, w1: 0, w2: s.w2, w3: s.w3, algorithm: s.algorithm, shape: s.shape, fn: BigInt(id), source: { context: {} }, locator: undefined as never }));
+        // a node's rows mostly come nearly in order: sorted, with a few moved
+        if (nearlySorted) rows = [...rows].sort(refOrder).map((r, i, all) => (i % 7 === 3 ? all[all.length - 1 - i]! : r)).filter((r, i, all) => all.indexOf(r) === i);
+        const want = [...rows].sort(refOrder).map((r) => r.fn);
+        const got = [...rows];
+        sortRows(got);
+        expect(got.map((r) => r.fn)).toEqual(want);
+      }),
+      { seed: 5952, numRuns: 400 },
+    );
   });
 });
