@@ -802,6 +802,13 @@ class SidSpec implements RowSource {
 
 const NO_SPECS: readonly SidSpec[] = Object.freeze([]);
 
+/** The End.X variants of a link, by its protection. */
+const PROTECTION_VARIANTS = {
+  unprotected: Object.freeze(["unprotected"] as const),
+  protected: Object.freeze(["protected"] as const),
+  both: Object.freeze(["unprotected", "protected"] as const),
+} as const;
+
 /** The flavour list of the service SIDs, shared (flavour lists are never changed once made). */
 const NO_FLAVORS: readonly Flavor[] = Object.freeze([]);
 
@@ -840,18 +847,22 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
   }
   // adjacency keys per node, to tell parallel links apart
   const seen = new Map<string, Set<string>>();
-  for (const l of plan.links) {
-    const [a, b] = l.ends;
-    const na = nodes.get(a.node);
-    const nb = nodes.get(b.node);
+  // (indexed loops, no destructuring: this runs once per plan, mostly before it is optimised,
+  // where each iterator step would make an object)
+  const links = plan.links;
+  for (let li = 0; li < links.length; li++) {
+    const l = links[li]!;
+    const ends = l.ends;
+    const na = nodes.get(ends[0].node);
+    const nb = nodes.get(ends[1].node);
     if (!na || !nb) continue;
     const algos = l.algorithms ?? na.algorithms.filter((x) => nb.algorithms.includes(x));
-    const variants = l.protection === "both" ? (["unprotected", "protected"] as const) : ([l.protection] as const);
-    for (const [me, peer] of [
-      [a, b],
-      [b, a],
-    ] as const) {
-      for (const prot of variants) {
+    const variants = PROTECTION_VARIANTS[l.protection];
+    for (let e = 0; e < 2; e++) {
+      const me = ends[e]!;
+      const peer = ends[1 - e]!;
+      for (let vi = 0; vi < variants.length; vi++) {
+        const prot = variants[vi]!;
         // flat (see flatKey): the set below and the lock key hash it
         const key = ["End.X|", peer.node, "|", me.iface ?? "", "|", prot].join("");
         let mine = seen.get(me.node);
@@ -864,7 +875,7 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
         const pinned = prot === "protected" && variants.length === 2 ? me.pinnedProtected : prot === "protected" ? (me.pinnedProtected ?? me.pinned) : me.pinned;
         // (object literals, not spreads: a spread of a temporary object costs about three times as much)
         const context: SidContext = me.iface ? { neighbor: peer.node, interface: me.iface, protection: prot, link: l.name } : { neighbor: peer.node, protection: prot, link: l.name };
-        const at = ["links", l.index, "ends", l.ends.indexOf(me)];
+        const at = ["links", l.index, "ends", ends.indexOf(me)];
         // one spec for the adjacency's SIDs of every algorithm (they share key, context and path)
         if (algos.length > 0) addTo(listOf(me.node), new SidSpec(key, "End.X", plan.adjacencyFlavors, "adjacency", algos, pinned, context, at));
       }

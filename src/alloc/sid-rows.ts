@@ -216,13 +216,16 @@ export class SidRowSink {
     p.structures.push(...this.structures);
     for (const [i, f] of this.bigFunctions) p.bigFunctions.set(i, f);
     const prefixIds = this.prefixes.map((pr) => p.addPrefix(pr));
-    this.locEntries.forEach((l, id) => {
+    for (let id = 0; id < this.locEntries.length; id++) {
+      const l = this.locEntries[id]!;
       const got = p.addLocator(this.locNodes[id]!, l.algorithm, prefixIds[this.locPrefixIds[id]!]!);
       p.setLocatorEntry(got, l);
-    });
+    }
     for (const id of this.unlisted) p.unlisted.add(id);
-    for (const src of this.sources) p.pushContextObject(src.context);
+    // (indexed loops: this runs once per table, often before the loop is optimised, where an
+    // iterator would make an object per step)
     const sources = this.sources;
+    for (let k = 0; k < sources.length; k++) p.pushContextObject(sources[k]!.context);
     const keyOf = this.keyOf;
     const context = p.context;
     const algorithm = p.algorithm;
