@@ -530,6 +530,43 @@ class PackedCells {
     if (b === undefined) this.nodes[id] = b = cellBytes(this.t.nodeNames[id]!);
     return b;
   }
+
+  /** The cells from behaviour to codepoint, each with its comma: `behavior,flavors,codepoint,` (made once per behaviour, flavour list and codepoint). */
+  middle(behavior: number, flavorSet: number, codepoint: number): Uint8Array {
+    const k = behavior * 65536 + flavorSet;
+    const known = this.middles.get(k);
+    // codepoint NaN: none (NaN !== NaN, hence the second test)
+    if (known !== undefined && (known.codepoint === codepoint || (known.codepoint !== known.codepoint && codepoint !== codepoint))) return known.bytes;
+    const bytes = concatBytes([this.behaviors[behavior]!, COMMA, this.flavors[flavorSet]!, COMMA, codepoint === codepoint ? numberCell(codepoint) : NO_BYTES, COMMA]);
+    if (known === undefined && flavorSet < 65536) this.middles.set(k, { codepoint, bytes });
+    return bytes;
+  }
+
+  private readonly middles = new Map<number, { readonly codepoint: number; readonly bytes: Uint8Array }>();
+}
+
+const COMMA = Uint8Array.of(0x2c);
+
+/** A number's cell as numInto writes it: digits for a whole number 0..2^32-1, else csvCell(String(n)). */
+function numberCell(n: number): Uint8Array {
+  return n >>> 0 === n ? utf8Bytes(String(n)) : cellBytes(String(n));
+}
+
+/** The cells from node to locator, each with its comma: `node,algorithm,locator,`. */
+function leadCell(node: Uint8Array, algorithm: number, locator: Uint8Array): Uint8Array {
+  return concatBytes([node, COMMA, numberCell(algorithm), COMMA, locator, COMMA]);
+}
+
+function concatBytes(parts: readonly Uint8Array[]): Uint8Array {
+  let n = 0;
+  for (const p of parts) n += p.length;
+  const out = new Uint8Array(n);
+  n = 0;
+  for (const p of parts) {
+    out.set(p, n);
+    n += p.length;
+  }
+  return out;
 }
 /** The structure cells of a SID without a structure: four commas. */
 const NO_STRUCTURE = utf8Bytes(",,,,");
@@ -543,35 +580,45 @@ function writePackedRows(out: ByteOut, nodeBytes: Uint8Array, t: PackedSidTable,
   let buf = out.buf;
   let p = out.pos;
   let k = from;
+  // the cells before the address, and those after it up to the function, each made once for
+  // the run of rows that share them (a node's rows come locator by locator, shape by shape)
+  let lead = NO_BYTES;
+  let leadLocator = -2;
+  let leadAlgorithm = NaN;
+  let mid = NO_BYTES;
+  let midBehavior = -1;
+  let midFlavors = -1;
+  let midCodepoint = NaN;
+  let midMade = false;
   while (k < end && p < stop) {
     const i = order === undefined ? k : order[k]!;
     k++;
-    const loc = cells.locator(locator[i]!);
-    const beh = cells.behaviors[behavior[i]!]!;
-    const fl = cells.flavors[flavorSet[i]!]!;
+    const li = locator[i]!;
+    const a = algorithm[i]!;
+    if (li !== leadLocator || a !== leadAlgorithm) {
+      lead = leadCell(nodeBytes, a, cells.locator(li));
+      leadLocator = li;
+      leadAlgorithm = a;
+    }
+    const bi = behavior[i]!;
+    const fi = flavorSet[i]!;
+    const cp = codepoint[i]!;
+    // (codepoint NaN is none: two NaNs are the same codepoint here)
+    if (!midMade || bi !== midBehavior || fi !== midFlavors || (cp !== midCodepoint && (cp === cp || midCodepoint === midCodepoint))) {
+      mid = cells.middle(bi, fi, cp);
+      midBehavior = bi;
+      midFlavors = fi;
+      midCodepoint = cp;
+      midMade = true;
+    }
     const sti = structure[i]!;
     const st = sti < 0 ? NO_STRUCTURE : cells.structures[sti]!;
-    const margin = ROW_FIXED + nodeBytes.length + loc.length + beh.length + fl.length + st.length;
+    const margin = ROW_FIXED + lead.length + mid.length + st.length;
     if (p + margin + ROW_SPARE > buf.length) out.buf = buf = room(buf, p, margin + ROW_SPARE);
-    p = bytesInto(buf, p, nodeBytes);
-    buf[p++] = 0x2c;
-    p = numInto(out, buf, p, algorithm[i]!, margin);
-    buf = out.buf;
-    buf[p++] = 0x2c;
-    p = bytesInto(buf, p, loc);
-    buf[p++] = 0x2c;
+    p = bytesInto(buf, p, lead);
     p = formatWordsInto(buf, p, w0[i]!, w1[i]!, w2[i]!, w3[i]!);
     buf[p++] = 0x2c;
-    p = bytesInto(buf, p, beh);
-    buf[p++] = 0x2c;
-    p = bytesInto(buf, p, fl);
-    buf[p++] = 0x2c;
-    const cp = codepoint[i]!;
-    if (cp === cp) {
-      p = numInto(out, buf, p, cp, margin);
-      buf = out.buf;
-    }
-    buf[p++] = 0x2c;
+    p = bytesInto(buf, p, mid);
     let q = hexInto(buf, p, fn[i]!);
     if (q < 0) {
       q = textInto(out, buf, p, "0x" + t.functionAt(i).toString(16), margin);
