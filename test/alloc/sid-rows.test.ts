@@ -94,6 +94,30 @@ describe("SidRowSink", () => {
   });
 });
 
+describe("SidRowSink locators", () => {
+  it("gives equal prefixes one prefix id (the same object or not) and prefixes of another length their own", () => {
+    const sink = new SidRowSink("demo", [], () => "");
+    const at = (hi: bigint, len: number) => new Prefix(hi << 80n, len);
+    const entry = (prefix: Prefix, algorithm = 0) => ({ prefix, algorithm, block: "b", anycast: "" });
+    const shared = entry(at(0x5f00_0000_0001n, 48)); // an anycast group's locator, listed by two nodes
+    const locs = [
+      [shared, entry(at(0x5f00_0000_0001n, 48), 128), entry(at(0x5f00_0000_0001n, 64)), entry(at(0x5f00_0000_0002n, 48))],
+      [shared, entry(at(0x5f00_0000_0001n, 64)), entry(at(0x5f00_0000_0001n, 56))],
+    ];
+    sink.writeNode("fell-p1", locs[0]!, []);
+    sink.writeNode("fell-p2", locs[1]!, []);
+    const t = sink.finish();
+    const ids = Array.from({ length: t.locatorCount }, (_, l) => t.locPrefix[l]!);
+    const text = (id: number) => t.prefixes[id]!.format();
+    // by value: 5f00:0:1::/48 (three times), /64 (twice), /56, 5f00:0:2::/48
+    expect(ids.map(text)).toEqual(["5f00:0:1::/48", "5f00:0:1::/48", "5f00:0:1::/64", "5f00:0:2::/48", "5f00:0:1::/48", "5f00:0:1::/64", "5f00:0:1::/56"]);
+    expect(new Set(ids).size).toBe(4);
+    expect(ids[0]).toBe(ids[1]);
+    expect(ids[0]).toBe(ids[4]);
+    expect(ids[2]).toBe(ids[5]);
+  });
+});
+
 describe("sortRows", () => {
   // the reference: Array.prototype.sort with the row order written out (address words, algorithm, behaviour name)
   const refOrder = (a: SidRow, b: SidRow) => a.w0 - b.w0 || a.w1 - b.w1 || a.w2 - b.w2 || a.w3 - b.w3 || a.algorithm - b.algorithm || (a.shape.behavior < b.shape.behavior ? -1 : a.shape.behavior > b.shape.behavior ? 1 : 0);
