@@ -126,10 +126,8 @@ export class SidRowSink {
   private readonly locEntries: LocatorEntry[] = [];
   private readonly locPrefixIds: number[] = [];
   private readonly prefixes: Prefix[] = [];
-  /** Prefixes (by length and address words) whose address came first with another length. */
   private readonly prefixIds = new Map<string, number>();
-  /** The id of the first prefix of each address. */
-  private readonly prefixByAddr = new Map<bigint, number>();
+  private readonly prefixObjects = new Map<Prefix, number>();
 
   /** Rows handed out by `row()`, reused once their node is written. */
   private readonly pool: SidRow[] = [];
@@ -249,24 +247,17 @@ export class SidRowSink {
   }
 
   private prefixId(pr: Prefix): number {
-    // by address (a Map compares bigints by value): the usual case, one length per address; the
-    // other lengths of an address by their text
-    const first = this.prefixByAddr.get(pr.addr);
-    if (first === undefined) {
-      const id = this.prefixes.length;
-      this.prefixes.push(pr);
-      this.prefixByAddr.set(pr.addr, id);
-      return id;
-    }
-    if (this.prefixes[first]!.len === pr.len) return first;
+    let id = this.prefixObjects.get(pr);
+    if (id !== undefined) return id;
     const [a, b, c, d] = toWords(pr.addr);
     const k = `${pr.len}|${a}|${b}|${c}|${d}`;
-    let id = this.prefixIds.get(k);
+    id = this.prefixIds.get(k);
     if (id === undefined) {
       id = this.prefixes.length;
       this.prefixes.push(pr);
       this.prefixIds.set(k, id);
     }
+    this.prefixObjects.set(pr, id);
     return id;
   }
 
