@@ -887,7 +887,12 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
       fams.length === 2 && v.mode === "combined" ? [{ b: "End.DT46", fam: "ipv4+ipv6" }] : fams.map((f) => ({ b: f === "ipv4" ? ("End.DT4" as const) : ("End.DT6" as const), fam: f }));
     // one spec per VRF and behaviour, shared by all its PEs (specs are never changed once made)
     const specs = behaviors.map(({ b, fam }) => new SidSpec(`${b}|${v.name}`, b, NO_FLAVORS, "service", oneAlgo(v.algorithm), undefined, { vrf: v.name, family: fam, ...(v.table !== undefined ? { table: String(v.table) } : {}) }, ["vrfs", i]));
-    for (const pe of v.pes) for (const spec of specs) add(pe, spec);
+    // each PE's list looked up once for all the VRF's specs
+    const pes = v.pes;
+    for (let k = 0; k < pes.length; k++) {
+      const list = listOf(pes[k]!);
+      for (let j = 0; j < specs.length; j++) addTo(list, specs[j]!);
+    }
     v.ces.forEach((c, j) => {
       const b: BehaviorName = c.family === "ipv4" ? "End.DX4" : "End.DX6";
       const context: SidContext = c.iface ? { vrf: v.name, ce: c.name, family: c.family, interface: c.iface } : { vrf: v.name, ce: c.name, family: c.family };
@@ -899,9 +904,10 @@ function buildSpecs(plan: Plan, nodes: ReadonlyMap<string, PlanNode>, diags: Dia
       const context = { "bridge-domain": s.name };
       const unicast = new SidSpec(`End.DT2U|${s.name}`, "End.DT2U", NO_FLAVORS, "l2", oneAlgo(s.algorithm), undefined, context, ["l2-services", i]);
       const multicast = new SidSpec(`End.DT2M|${s.name}`, "End.DT2M", NO_FLAVORS, "l2", oneAlgo(s.algorithm), undefined, context, ["l2-services", i]);
-      for (const n of s.nodes) {
-        add(n, unicast);
-        add(n, multicast);
+      for (let k = 0; k < s.nodes.length; k++) {
+        const list = listOf(s.nodes[k]!);
+        addTo(list, unicast);
+        addTo(list, multicast);
       }
     } else {
       const b: BehaviorName = s.kind === "wire" ? "End.DX2" : "End.DX2V";
