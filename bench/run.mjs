@@ -196,6 +196,14 @@ const machine = {
   node: process.version,
   python: spawnSync("python3", ["--version"], { encoding: "utf8" }).stdout.trim() || "absent",
   load: loadavg().map((x) => x.toFixed(1)).join(", "),
+  // how fast the machine is right now (bench/probe.mjs), in a child of its own
+  probe: (() => {
+    try {
+      return JSON.parse(spawnSync(process.execPath, [join(ROOT, "bench", "probe.mjs")], { encoding: "utf8" }).stdout);
+    } catch {
+      return undefined;
+    }
+  })(),
 };
 log(`machine: ${machine.cpu}, ${machine.cores} cores, ${machine.memoryGb} GB, node ${machine.node}, ${machine.python}`);
 
@@ -281,6 +289,7 @@ function renderDoc(s, before) {
   L.push("## Machine", "");
   L.push(`- CPU: ${s.machine.cpu}, ${s.machine.cores} cores`, `- memory: ${s.machine.memoryGb} GB`, `- Node.js ${s.machine.node}; ${s.machine.python}`);
   if (s.machine.load) L.push(`- load average when the run started: ${s.machine.load}`);
+  if (s.machine.probe) L.push(`- speed when the run started (bench/probe.mjs): ${s.machine.probe.aluMs} ms for 10^8 steps of an integer loop; ${s.machine.probe.readNs} ns per dependent random read over 256 MB (memory latency: on a shared machine it varies most from day to day, and the allocator, the loaders and the GC feel it most)`);
   L.push(`- plans read as ${s.planFormat === "json" ? "JSON (plan.json)" : "YAML (plan.yaml)"}`);
   L.push(`- runs: median of ${s.runs} (${s.largeRuns} for 20,000 routers); peak memory is the largest of the runs; a child is stopped after ${s.timeoutS ?? 600} s`, "");
   L.push("## Whole processes (the CLI)", "");

@@ -1026,7 +1026,10 @@ interface SidShape {
 /** Shapes per layout, made once (a plan has a handful; a million SIDs would otherwise make a million copies). */
 const shapes = new WeakMap<Layout, Map<string, SidShape>>();
 
-/** shapeOf's last answer made by key, and what it was for (neighbouring specs mostly have the same shape: a node's End.X specs). */
+/**
+ * shapeOf's last answer made by key, and what it was for (neighbouring specs mostly have the same
+ * shape: a node's End.X specs). It holds on to one layout at most, until another is asked about.
+ */
 let lastShape: { L: Layout; behavior: BehaviorName; noFunction: boolean; flavors: readonly Flavor[]; shape: SidShape } | undefined;
 
 function shapeOf(L: Layout, s: SidSpec): SidShape {

@@ -533,12 +533,15 @@ class PackedCells {
 
   /** The cells from behaviour to codepoint, each with its comma: `behavior,flavors,codepoint,` (made once per behaviour, flavour list and codepoint). */
   middle(behavior: number, flavorSet: number, codepoint: number): Uint8Array {
-    const k = behavior * 65536 + flavorSet;
-    const known = this.middles.get(k);
+    // kept by behaviour and flavour list (both ids below 2^16 make one number), with the first
+    // codepoint seen: the codepoint follows from the two (IANA SRv6 Endpoint Behaviors registry,
+    // RFC 8986 §10.2), so others are rare
+    const k = behavior < 65536 && flavorSet < 65536 ? behavior * 65536 + flavorSet : -1;
+    const known = k < 0 ? undefined : this.middles.get(k);
     // codepoint NaN: none (NaN !== NaN, hence the second test)
     if (known !== undefined && (known.codepoint === codepoint || (known.codepoint !== known.codepoint && codepoint !== codepoint))) return known.bytes;
     const bytes = concatBytes([this.behaviors[behavior]!, COMMA, this.flavors[flavorSet]!, COMMA, codepoint === codepoint ? numberCell(codepoint) : NO_BYTES, COMMA]);
-    if (known === undefined && flavorSet < 65536) this.middles.set(k, { codepoint, bytes });
+    if (known === undefined && k >= 0) this.middles.set(k, { codepoint, bytes });
     return bytes;
   }
 
