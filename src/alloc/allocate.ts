@@ -275,7 +275,7 @@ export function allocate(plan: Plan, previous: Lock | undefined, options: Alloca
   const sink = new SidRowSink(plan.name, allSpecs, (src, algo) => lockKey(src as SidSpec, algo));
   // A service on an algorithm its node does not run would silently get no SID: refuse it.
   for (const n of plan.nodes) {
-    const list = specsFor.get(n.name) ?? [];
+    const list = specsFor.get(n.name) ?? NO_SPECS;
     for (let k = 0; k < list.length; k++) {
       const sp = list[k]!;
       if (sp.algos === undefined) continue;

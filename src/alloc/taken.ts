@@ -13,14 +13,15 @@ export class TakenValues {
   private limit = 0;
   /** Marked values, to clear them at the next reset. */
   private readonly touched: number[] = [];
-  private others = new Set<bigint>();
+  private readonly others = new Set<bigint>();
 
   /** Start a new locator whose function field has `bits` bits, with `initial` taken. */
   reset(bits: number, initial: Iterable<bigint>): void {
     const marks = this.marks;
-    for (const v of this.touched) marks[v] = 0;
-    this.touched.length = 0;
-    if (this.others.size > 0) this.others = new Set();
+    const touched = this.touched;
+    for (let k = 0; k < touched.length; k++) marks[touched[k]!] = 0;
+    touched.length = 0;
+    this.others.clear();
     this.limit = bits <= MARK_BITS ? 2 ** bits : 0;
     if (this.limit > marks.length) this.marks = new Uint8Array(this.limit);
     for (const v of initial) this.add(v);
